@@ -1,0 +1,45 @@
+import type { Role } from './vocabulary';
+
+// What each role may do. The server's guard and the client's can() read this one table;
+// the client only hides what the server would refuse anyway.
+export const permissions = {
+  'profile.read': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
+  'staff.read': ['partner_admin', 'lab_manager', 'network_admin'],
+  'staff.invite': ['partner_admin', 'lab_manager', 'network_admin'],
+  'organization.read': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
+  'network.organizations.read': ['network_admin'],
+  'referrals.create': ['partner_admin', 'partner_staff'],
+  'referrals.read': ['partner_admin', 'partner_staff', 'network_admin'],
+  'api-keys.manage': ['partner_admin'],
+  'webhooks.manage': ['partner_admin'],
+  'payouts.manage': ['partner_admin'],
+  'offers.respond': ['lab_manager'],
+  'lab-profile.manage': ['lab_manager', 'network_admin'],
+  'inbound.read': ['shipping_clerk', 'lab_manager'],
+  'inbound.check-in': ['shipping_clerk'],
+  'bench.work': ['lab_technician', 'lab_manager'],
+  'quotes.send': ['lab_manager'],
+  'network.manage': ['network_admin'],
+  'settlement.run': ['network_admin'],
+  'audit.read': ['network_admin'],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof permissions;
+
+export function roleCan(role: Role, permission: Permission): boolean {
+  return (permissions[permission] as readonly Role[]).includes(role);
+}
+
+export function permissionsFor(role: Role): Permission[] {
+  return (Object.keys(permissions) as Permission[]).filter((p) => roleCan(role, p));
+}
+
+/** Where each role lands after sign-in (the client maps these names to paths). */
+export const roleHome: Record<Role, 'partner.cases' | 'lab.inbound' | 'lab.offers' | 'lab.bench' | 'admin.overview'> = {
+  partner_admin: 'partner.cases',
+  partner_staff: 'partner.cases',
+  shipping_clerk: 'lab.inbound',
+  lab_manager: 'lab.offers',
+  lab_technician: 'lab.bench',
+  network_admin: 'admin.overview',
+};
