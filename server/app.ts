@@ -1,0 +1,86 @@
+import { randomUUID } from 'node:crypto';
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import type { DataSource } from 'typeorm';
+import { authRoutes, createGuard } from './auth';
+import type { Config } from './config';
+import { errorHandler, notFoundHandler } from './lib/errors';
+import { logger, requestContext } from './lib/logger';
+import { organizationRoutes } from './organizations';
+
+export interface AppDeps {
+  config: Config;
+  db: DataSource;
+}
+
+const REQUEST_ID = /^[A-Za-z0-9._-]{8,100}$/;
+
+/** Builds the whole app without listening, so tests drive it with supertest. */
+export function createApp({ config, db }: AppDeps): Express {
+  const ctx = { config, db };
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+
+  // A request id on every response and every log line; a caller's own id is kept when sane.
+  app.use((req, res, next) => {
+    const incoming = req.header('x-request-id');
+    const requestId = incoming && REQUEST_ID.test(incoming) ? incoming : randomUUID();
+    res.setHeader('X-Request-Id', requestId);
+    requestContext.run({ requestId }, next);
+  });
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: (_req, res) => String(res.getHeader('X-Request-Id')),
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      quietReqLogger: true,
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Map tiles are drawn from data shipped with the app; images may be data: URLs.
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'upgrade-insecure-requests': config.appUrl.startsWith('https://') ? [] : null,
+        },
+      },
+      strictTransportSecurity: config.appUrl.startsWith('https://'),
+    }),
+  );
+  // No CORS middleware: the API answers its own origin only (closed by default).
+  app.use(cookieParser());
+  app.use('/api', express.json({ limit: config.jsonBodyLimit }));
+
+  const guard = createGuard(ctx);
+
+  app.get('/api/health', async (_req, res) => {
+    try {
+      await db.query('SELECT 1');
+      res.json({ status: 'ok', db: 'ok' });
+    } catch {
+      res.status(503).json({ status: 'degraded', db: 'unreachable' });
+    }
+  });
+  app.use('/api/auth', authRoutes(ctx, guard));
+  app.use('/api', organizationRoutes(ctx, guard));
+  app.use('/api', notFoundHandler);
+
+  // The built client, with the router's paths falling back to index.html.
+  const staticDir = path.resolve(config.staticDir);
+  if (existsSync(path.join(staticDir, 'index.html'))) {
+    app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
+    app.get(/^\/(?!api\/).*/, (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(staticDir, 'index.html'));
+    });
+  }
+
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,2 @@
+export { AuditEvent } from './entities';
+export { recordAudit, type AuditInput } from './service';

@@ -1,0 +1,73 @@
+import { z } from 'zod';
+
+// The one place that reads the environment. A bad value stops the process with a
+// message naming the variable.
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+const configSchema = z
+  .object({
+    NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+    HOST: z.string().default('127.0.0.1'),
+    PORT: z.coerce.number().int().min(1).max(65535).default(3000),
+    APP_URL: z.string().url().optional(),
+    DATABASE_URL: z.string().url().default('postgres://postgres@127.0.0.1:54320/platterpost'),
+    DATABASE_POOL_SIZE: z.coerce.number().int().min(1).max(100).default(10),
+    JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters').optional(),
+    ACCESS_TOKEN_TTL_SECONDS: z.coerce.number().int().min(30).default(900),
+    REFRESH_TOKEN_TTL_DAYS: z.coerce.number().int().min(1).default(14),
+    PASSWORD_RESET_TTL_MINUTES: z.coerce.number().int().min(5).default(60),
+    INVITATION_TTL_HOURS: z.coerce.number().int().min(1).default(72),
+    SIGN_IN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
+    SIGN_IN_LOCK_MINUTES: z.coerce.number().int().min(1).default(15),
+    SMTP_HOST: z.string().default('127.0.0.1'),
+    SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+    MAIL_FROM: z.string().default('Platterpost <no-reply@platterpost.example>'),
+    LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+    STATIC_DIR: z.string().default('dist'),
+    UPLOAD_DIR: z.string().default('.data/uploads'),
+    RUN_WORKERS: bool.default(true),
+    JSON_BODY_LIMIT: z.string().default('256kb'),
+  })
+  .transform((env, ctx) => {
+    if (env.NODE_ENV === 'production' && !env.JWT_SECRET) {
+      ctx.addIssue({ code: 'custom', path: ['JWT_SECRET'], message: 'JWT_SECRET is required in production' });
+    }
+    return {
+      env: env.NODE_ENV,
+      host: env.HOST,
+      port: env.PORT,
+      appUrl: (env.APP_URL ?? `http://localhost:${env.PORT}`).replace(/\/$/, ''),
+      databaseUrl: env.DATABASE_URL,
+      databasePoolSize: env.DATABASE_POOL_SIZE,
+      // Development and test fall back to a fixed secret so that `npm start` needs no set-up.
+      jwtSecret: env.JWT_SECRET ?? 'platterpost-development-secret-not-for-production-use',
+      accessTokenTtlSeconds: env.ACCESS_TOKEN_TTL_SECONDS,
+      refreshTokenTtlDays: env.REFRESH_TOKEN_TTL_DAYS,
+      passwordResetTtlMinutes: env.PASSWORD_RESET_TTL_MINUTES,
+      invitationTtlHours: env.INVITATION_TTL_HOURS,
+      signInMaxFailures: env.SIGN_IN_MAX_FAILURES,
+      signInLockMinutes: env.SIGN_IN_LOCK_MINUTES,
+      smtp: { host: env.SMTP_HOST, port: env.SMTP_PORT },
+      mailFrom: env.MAIL_FROM,
+      logLevel: env.LOG_LEVEL,
+      staticDir: env.STATIC_DIR,
+      uploadDir: env.UPLOAD_DIR,
+      runWorkers: env.RUN_WORKERS,
+      jsonBodyLimit: env.JSON_BODY_LIMIT,
+    };
+  });
+
+export type Config = z.output<typeof configSchema>;
+
+export class ConfigError extends Error {}
+
+export function loadConfig(env: Record<string, string | undefined> = process.env): Config {
+  const result = configSchema.safeParse(env);
+  if (!result.success) {
+    const lines = result.error.issues.map((i) => `  ${i.path.join('.') || '(environment)'}: ${i.message}`);
+    throw new ConfigError(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  return result.data;
+}

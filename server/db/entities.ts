@@ -1,0 +1,7 @@
+// Every entity the DataSource knows. A component adds its entities here.
+import { AuditEvent } from '../audit/entities';
+import { OneTimeToken, RefreshToken, User } from '../auth/entities';
+import { OutboxMessage } from '../notifications/entities';
+import { Organization } from '../organizations/entities';
+
+export const entities = [Organization, User, RefreshToken, OneTimeToken, OutboxMessage, AuditEvent];

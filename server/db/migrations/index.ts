@@ -1,0 +1,4 @@
+// Listed by hand, oldest first: migrations are reviewed code, not a folder glob.
+import { Foundation1764633600000 } from './1764633600000-foundation';
+
+export const migrations = [Foundation1764633600000];

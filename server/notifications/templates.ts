@@ -1,0 +1,75 @@
+// E-mail templates of our own: each returns a subject and both an HTML and a text part.
+export interface RenderedEmail {
+  subject: string;
+  text: string;
+  html: string;
+}
+
+const escapeHtml = (s: string) =>
+  s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&#39;');
+
+const FOOTER_TEXT =
+  'Platterpost connects repair shops with the recovery labs that can save their customers\u2019 data.\nYou receive this because you have an account or a case on the network.';
+
+interface Block {
+  heading: string;
+  paragraphs: string[];
+  action?: { label: string; url: string };
+  note?: string;
+}
+
+function layout(block: Block): { text: string; html: string } {
+  const text = [
+    block.heading,
+    '',
+    ...block.paragraphs.flatMap((p) => [p, '']),
+    ...(block.action ? [`${block.action.label}: ${block.action.url}`, ''] : []),
+    ...(block.note ? [block.note, ''] : []),
+    '-- ',
+    FOOTER_TEXT,
+  ].join('\n');
+  const html = `<!doctype html><html><body style="margin:0;background:#f4f1ea;font-family:'DM Sans',Arial,sans-serif;color:#1f2a30">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0"><tr><td align="center" style="padding:24px">
+<table role="presentation" width="560" cellpadding="0" cellspacing="0" style="background:#ffffff;border-radius:8px;padding:28px">
+<tr><td style="font-size:13px;letter-spacing:.08em;text-transform:uppercase;color:#2f6b5e;font-weight:700">Platterpost</td></tr>
+<tr><td><h1 style="font-size:20px;margin:12px 0 16px">${escapeHtml(block.heading)}</h1>
+${block.paragraphs.map((p) => `<p style="line-height:1.5;margin:0 0 12px">${escapeHtml(p)}</p>`).join('\n')}
+${
+  block.action
+    ? `<p style="margin:20px 0"><a href="${escapeHtml(block.action.url)}" style="background:#2f6b5e;color:#ffffff;padding:10px 18px;border-radius:6px;text-decoration:none;font-weight:600">${escapeHtml(block.action.label)}</a></p>
+<p style="font-size:12px;color:#5b666c">If the button does not work, open this address: ${escapeHtml(block.action.url)}</p>`
+    : ''
+}
+${block.note ? `<p style="font-size:13px;color:#5b666c">${escapeHtml(block.note)}</p>` : ''}
+</td></tr>
+<tr><td style="border-top:1px solid #e3ded3;padding-top:12px;font-size:12px;color:#5b666c">${escapeHtml(FOOTER_TEXT).replace('\n', '<br>')}</td></tr>
+</table></td></tr></table></body></html>`;
+  return { text, html };
+}
+
+export const emailTemplates = {
+  password_reset: (d: { name: string; url: string; minutes: number }) => ({
+    subject: 'Reset your Platterpost password',
+    ...layout({
+      heading: 'Reset your password',
+      paragraphs: [`Hello ${d.name},`, `Someone asked to reset the password for your Platterpost account. The link works once and for ${d.minutes} minutes.`],
+      action: { label: 'Choose a new password', url: d.url },
+      note: 'If you did not ask for this, you can ignore this message; your password stays as it is.',
+    }),
+  }),
+  staff_invitation: (d: { name: string; inviterName: string; organizationName: string; roleLabel: string; url: string; hours: number }) => ({
+    subject: `${d.inviterName} invited you to ${d.organizationName} on Platterpost`,
+    ...layout({
+      heading: `Join ${d.organizationName} on Platterpost`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `${d.inviterName} has invited you to join ${d.organizationName} as ${d.roleLabel}.`,
+        `The link works once and for ${d.hours} hours.`,
+      ],
+      action: { label: 'Accept the invitation', url: d.url },
+    }),
+  }),
+} satisfies Record<string, (data: never) => RenderedEmail>;
+
+export type EmailTemplate = keyof typeof emailTemplates;
+export type EmailData<T extends EmailTemplate> = Parameters<(typeof emailTemplates)[T]>[0];

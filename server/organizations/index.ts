@@ -1,0 +1,3 @@
+export { Organization } from './entities';
+export { organizationRoutes } from './routes';
+export { toOrganizationDto } from './service';

@@ -1,0 +1,23 @@
+import { inject } from 'vitest';
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+// Debian's Chromium, never a downloaded browser. Background networking is off because
+// the machines running the suite have no network beyond loopback.
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run'],
+  });
+}
+
+/** Base URL of the built app served by the real server that the global set-up started. */
+export function appUrl(path = '/'): string {
+  return new URL(path, inject('appUrl')).toString();
+}
+
+export async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto(appUrl('/sign-in'));
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}

@@ -1,0 +1,10 @@
+// Values the global set-up hands to every test file through vitest's provide/inject.
+declare module 'vitest' {
+  export interface ProvidedContext {
+    databaseUrl: string;
+    appUrl: string;
+    mailApiUrl: string;
+    smtpPort: number;
+  }
+}
+export {};
