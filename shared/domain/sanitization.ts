@@ -382,7 +382,7 @@ export function checkSanitization(request: SanitizationRequest): SanitizationChe
   }
   const rule = ruleFor(mediaType, technique);
   const achieves = achievedLevel(mediaType, technique, request);
-  const what = `${sanitizationTechniqueLabels[technique]} on a ${mediaTypeLabels[mediaType]} (${mediaType})`;
+  const what = `${sanitizationTechniqueLabels[technique]} on ${mediaType} (${mediaTypeLabels[mediaType]})`;
 
   if (achieves === null) {
     const unmet = rule.requires && rule.achieves !== null ? ` It counts only when ${conditionWording[rule.requires]}.` : '';
