@@ -11,6 +11,7 @@ import {
   type SensitivityFlag,
   type Symptom,
 } from '../vocabulary';
+import type { BatteryDeclaration, CautionSeverity } from './battery';
 
 // Triage: media type + symptoms (+ sensitivity, battery) → the skills a lab needs and the cautions the shop
 // must see. Every rule is one row below with its reason. The rules are common practice in the data-recovery
@@ -31,13 +32,12 @@ export const cautionCodes = [
   'tape_do_not_rewind',
   'chain_of_custody',
   'health_data_agreement',
-  'battery_hazard',
   'battery_not_declared',
   'other_media_review',
 ] as const;
 export type CautionCode = (typeof cautionCodes)[number];
 
-export type CautionSeverity = 'stop' | 'warning' | 'info';
+export type { CautionSeverity };
 
 export interface Caution {
   code: CautionCode;
@@ -50,27 +50,27 @@ export interface Caution {
 
 export const cautions: Record<CautionCode, Omit<Caution, 'code'>> = {
   do_not_power_on: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Do not power the device on again.',
     reason: 'Every power-on of a failing drive can add damage (heads scraping platters, a short spreading on the board) and can turn a recoverable case into a lost one.',
   },
   do_not_open_drive: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Do not open the drive.',
     reason: 'Heads fly nanometres above the platters; one dust particle from room air scratches them. Drives are opened only on a certified clean-air bench.',
   },
   do_not_remove_chips: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Do not heat the board or remove memory chips.',
     reason: 'Controllers scramble or encrypt what they write; a chip lifted without the right tools and the controller layout is usually unreadable or broken.',
   },
   do_not_heat_board: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Do not open, heat or micro-solder the board.',
     reason: 'Phone storage is encrypted with keys held in the main processor; if that processor is damaged the data is gone for good.',
   },
   stop_using_device: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Stop using the device: do not save, install or copy anything onto it.',
     reason: 'Deleted files stay on the media only until something new is written over them; recovery software installed on the same device overwrites them.',
   },
@@ -95,12 +95,12 @@ export const cautions: Record<CautionCode, Omit<Caution, 'code'>> = {
     reason: 'Encrypted data can only be read with its key; without it no lab can recover the files.',
   },
   do_not_dry_with_heat: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Do not charge it, dry it with heat or put it in rice; bag it as it is.',
     reason: 'Power and heat drive corrosion and short circuits; rice does not dry a board and leaves starch dust.',
   },
   raid_keep_members: {
-    severity: 'stop',
+    severity: 'danger',
     message: 'Do not rebuild, initialise or resync the array; label each member with its slot and send them all.',
     reason: 'A rebuild or resync onto a degraded array overwrites parity and data; the lab needs every member, and the order, to reconstruct it.',
   },
@@ -118,11 +118,6 @@ export const cautions: Record<CautionCode, Omit<Caution, 'code'>> = {
     severity: 'info',
     message: 'Only labs that have signed the network’s health-data agreement will be offered this case.',
     reason: 'Health records carry legal duties for everyone who handles them.',
-  },
-  battery_hazard: {
-    severity: 'stop',
-    message: 'Swollen, damaged or leaking battery: do not charge it, keep it away from heat, isolate it in a non-combustible container, and contact the lab before shipping.',
-    reason: 'A damaged lithium battery can catch fire; carriers forbid it on air services (general rule; the carrier’s own rules decide).',
   },
   battery_not_declared: {
     severity: 'info',
@@ -209,12 +204,6 @@ export const triageRules: readonly TriageRule[] = [
 
 export const hazardousBatteryConditions: readonly BatteryCondition[] = ['swollen', 'damaged', 'leaking'];
 
-export interface BatteryDeclaration {
-  installed: boolean;
-  /** Required when installed. */
-  condition?: BatteryCondition;
-}
-
 export interface TriageInput {
   mediaType: MediaType;
   symptoms: readonly Symptom[];
@@ -244,13 +233,16 @@ export interface TriageResult {
   matchedRules: MatchedRule[];
   /** Reported symptoms no rule uses for this media type; the lab's evaluation covers them. */
   unmatchedSymptoms: Symptom[];
-  /** A hazardous battery was declared: keep off air services and contact the lab first. */
+  /**
+   * A swollen, damaged or leaking battery was declared: ground only, contact the lab first. The battery's own
+   * cautions and shipping rules come from assessBattery() in battery.ts, so triage does not repeat them.
+   */
   batteryHazard: boolean;
   /** The network should confirm the result by hand (other media). */
   needsReview: boolean;
 }
 
-const severityOrder: Record<CautionSeverity, number> = { stop: 0, warning: 1, info: 2 };
+const severityOrder: Record<CautionSeverity, number> = { danger: 0, warning: 1, info: 2 };
 // A case with symptoms but no skill-giving rule still needs a lab that can image and read it.
 const defaultSkill: LabSkill = 'logical';
 
@@ -323,18 +315,9 @@ export function triage(input: TriageInput): TriageResult {
     });
   }
 
-  let batteryHazard = false;
-  if (batteryMediaTypes.includes(input.mediaType)) {
-    if (input.battery === undefined) cautionSet.add('battery_not_declared');
-    else if (input.battery.installed && hazardousBatteryConditions.includes(input.battery.condition as BatteryCondition)) {
-      batteryHazard = true;
-      cautionSet.add('battery_hazard');
-    }
-  } else if (input.battery?.installed && hazardousBatteryConditions.includes(input.battery.condition as BatteryCondition)) {
-    // Laptops' drives arrive without batteries, but a declared hazard is never ignored.
-    batteryHazard = true;
-    cautionSet.add('battery_hazard');
-  }
+  const condition = input.battery?.installed ? input.battery.condition : undefined;
+  const batteryHazard = condition !== undefined && hazardousBatteryConditions.includes(condition);
+  if (batteryMediaTypes.includes(input.mediaType) && input.battery === undefined) cautionSet.add('battery_not_declared');
 
   const requiredSkills = labSkills.filter((s) => skillSet.has(s));
   const orderedCautions = cautionCodes
