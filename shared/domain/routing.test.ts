@@ -134,6 +134,11 @@ describe('routeCase: exclusions, each with its reason', () => {
     });
   });
 
+  it('does not add a clean-air reason for a lab that lacks the mechanical skill anyway', () => {
+    const { excluded } = routeCase(clickingDrive, [lab({ id: 'logical-only', turnaroundDays: { logical: 3 }, cleanAirCertificate: null })], { asOf });
+    expect(excluded[0].reasons.map((r) => r.code)).toEqual(['missing_skills']);
+  });
+
   it('lists every reason a lab fails, not only the first', () => {
     const { excluded } = routeCase(clickingDrive, [lab({ id: 'x', active: false, mediaTypes: [], cleanAirCertificate: null })], { asOf });
     expect(excluded[0].reasons.map((r) => r.code)).toEqual(['inactive', 'media_type', 'clean_air_missing']);

@@ -11,7 +11,7 @@ import {
 import { geodesicDistanceKm, kmToMiles, type LatLon } from './geo';
 import type { TriageResult } from './triage';
 import { distanceZone, transitDaysForZone, type ShippingMode, type Zone } from './zones';
-import { labSkillLabels, labSkills, mediaTypeLabels, mediaTypes, type LabSkill, type MediaType } from '../vocabulary';
+import { cleanAirSkills, labSkillLabels, labSkills, mediaTypeLabels, mediaTypes, type LabSkill, type MediaType } from '../vocabulary';
 
 // Routing: which labs may take a case, and in which order to offer it. Candidates are active labs with every
 // required skill, that take the media type, meet the sensitivity rules and have room in their queue; head
@@ -198,6 +198,8 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[], option
   const previouslyOffered = new Set(options.previouslyOfferedLabIds ?? []);
   const batteryHazard = kase.requirements.batteryHazard === true;
   const mode: ShippingMode = batteryHazard ? 'ground' : (options.shippingMode ?? 'ground');
+  const mechanicalSkills = required.filter((s) => cleanAirSkills.includes(s));
+  const needsCleanAir = kase.requirements.needsCleanAir || mechanicalSkills.length > 0;
 
   const excluded: ExcludedLab[] = [];
   const candidates: Array<Omit<RankedLab, 'rank'> & { sortKey: number }> = [];
@@ -228,8 +230,8 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[], option
       reasons.push({ code: 'no_throughput', message: 'Lab reports no weekly throughput, so its queue time cannot be estimated.' });
     }
     let cleanAir: RankedLab['cleanAir'];
-    // Only check clean air when the lab could do the mechanical work at all; otherwise the missing skill says it.
-    if (kase.requirements.needsCleanAir) {
+    // Only check clean air when the lab offers the mechanical work at all; otherwise the missing skill says it.
+    if (needsCleanAir && mechanicalSkills.every((s) => lab.turnaroundDays[s] !== undefined)) {
       const check = checkCleanAir(lab, options.asOf);
       if (check.ok) cleanAir = { isoClass: check.isoClass, testedOn: check.testedOn, currentUntil: check.currentUntil };
       else reasons.push(check.reason);
