@@ -45,7 +45,7 @@ export default defineConfig({
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
-          globalSetup: ['tests/support/global-setup.ts'],
+          globalSetup: ['tests/support/global-setup.ts', 'tests/support/server-setup.ts'],
           testTimeout: 90_000,
           hookTimeout: 120_000,
           fileParallelism: false,

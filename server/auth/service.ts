@@ -91,11 +91,14 @@ export async function signIn(ctx: ServiceContext, input: { email: string; passwo
 const ROTATION_GRACE_MS = 10_000;
 
 export async function refreshSession(ctx: ServiceContext, rawToken: string | undefined): Promise<IssuedSession> {
+  const ended = () => AppError.unauthenticated('Your session has ended. Sign in again.');
   const parsed = parseOpaqueToken(rawToken);
-  if (!parsed) throw AppError.unauthenticated('Your session has ended. Sign in again.');
-  return ctx.db.transaction(async (manager) => {
+  if (!parsed) throw ended();
+  // The transaction returns its outcome rather than throwing, so that revoking a replayed
+  // family commits before the 401 is answered.
+  const outcome = await ctx.db.transaction(async (manager): Promise<IssuedSession | 'ended' | 'expired'> => {
     const token = await manager.findOne(RefreshToken, { where: { id: parsed.id }, lock: { mode: 'pessimistic_write' } });
-    if (!token || !secretMatches(parsed.secret, token.tokenHash)) throw AppError.unauthenticated('Your session has ended. Sign in again.');
+    if (!token || !secretMatches(parsed.secret, token.tokenHash)) return 'ended';
     if (token.revokedAt) {
       const recentlyRotated = token.replacedById && Date.now() - token.revokedAt.getTime() < ROTATION_GRACE_MS;
       if (!recentlyRotated) {
@@ -103,16 +106,19 @@ export async function refreshSession(ctx: ServiceContext, rawToken: string | und
         await manager.query(`UPDATE refresh_tokens SET revoked_at = now() WHERE family_id = $1 AND revoked_at IS NULL`, [token.familyId]);
         await recordAudit(manager, { action: 'auth.refresh_reuse', actorUserId: token.userId, details: { familyId: token.familyId } });
       }
-      throw AppError.unauthenticated('Your session has ended. Sign in again.');
+      return 'ended';
     }
-    if (token.expiresAt <= new Date()) throw AppError.unauthenticated('Your session has expired. Sign in again.');
+    if (token.expiresAt <= new Date()) return 'expired';
     const loaded = await loadUserWithOrganization(manager, token.userId);
-    if (!loaded || loaded.user.status !== 'active' || !loaded.organization.active) throw AppError.unauthenticated('Your session has ended. Sign in again.');
+    if (!loaded || loaded.user.status !== 'active' || !loaded.organization.active) return 'ended';
     const session = await issueSession(ctx, manager, loaded.user, loaded.organization, token.familyId);
     const successor = parseOpaqueToken(session.refreshToken)!;
     await manager.update(RefreshToken, token.id, { revokedAt: new Date(), replacedById: successor.id });
     return session;
   });
+  if (outcome === 'ended') throw ended();
+  if (outcome === 'expired') throw AppError.unauthenticated('Your session has expired. Sign in again.');
+  return outcome;
 }
 
 export async function signOut(ctx: ServiceContext, rawToken: string | undefined): Promise<void> {

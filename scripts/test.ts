@@ -1,0 +1,39 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, chmodSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { buildClientIfStale } from './lib/build';
+import { ensureCluster, ensureDatabase } from './lib/postgres';
+
+// `npm test [-- vitest args]`: a throwaway PostgreSQL cluster, migrated and seeded, the client
+// built for the browser tests, then Vitest; everything it started is gone when it ends.
+const port = Number(process.env.TEST_PG_PORT ?? 54330);
+const dataDir = mkdtempSync(path.join(os.tmpdir(), 'platterpost-test-'));
+chmodSync(dataDir, 0o755);
+const cluster = ensureCluster({
+  dataDir: path.join(dataDir, 'pg'),
+  port,
+  // Durability is pointless for a cluster deleted after the run.
+  settings: { fsync: 'off', synchronous_commit: 'off', full_page_writes: 'off', max_connections: '300' },
+});
+
+let code = 1;
+try {
+  await ensureDatabase(cluster, 'platterpost_test');
+  const env = { ...process.env, DATABASE_URL: cluster.url('platterpost_test'), TEST_PG_ADMIN_URL: cluster.url('postgres'), NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' };
+  const tsx = path.join('node_modules', 'tsx', 'dist', 'cli.mjs');
+  const migrate = spawnSync(process.execPath, [tsx, 'scripts/migrate.ts', '--seed'], { stdio: 'inherit', env });
+  if (migrate.status !== 0) throw new Error('migrations failed');
+  // The browser suite needs the built client; a run of other projects only does not.
+  const args = process.argv.slice(2);
+  const projects = args.flatMap((a, i) => (a === '--project' ? [args[i + 1]] : a.startsWith('--project=') ? [a.slice(10)] : []));
+  if (projects.length === 0 || projects.includes('e2e')) buildClientIfStale();
+  const vitest = spawnSync(process.execPath, [path.join('node_modules', 'vitest', 'vitest.mjs'), 'run', ...args], { stdio: 'inherit', env });
+  code = vitest.status ?? 1;
+} catch (err) {
+  console.error(`[test] ${(err as Error).message}`);
+} finally {
+  cluster.stop();
+  rmSync(dataDir, { recursive: true, force: true });
+}
+process.exit(code);

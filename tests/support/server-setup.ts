@@ -1,0 +1,50 @@
+import { spawn } from 'node:child_process';
+import { createServer } from 'node:net';
+import path from 'node:path';
+import type { TestProject } from 'vitest/node';
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const srv = createServer();
+    srv.listen(0, '127.0.0.1', () => {
+      const { port } = srv.address() as { port: number };
+      srv.close(() => resolve(port));
+    });
+    srv.on('error', reject);
+  });
+}
+
+// The browser suite drives the real server process serving the built client.
+export default async function setup(project: TestProject) {
+  const port = await freePort();
+  const appUrl = `http://127.0.0.1:${port}`;
+  const child = spawn(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'server/index.ts'], {
+    env: {
+      ...process.env,
+      PORT: String(port),
+      APP_URL: appUrl,
+      SMTP_PORT: process.env.TEST_SMTP_PORT ?? '2525',
+      LOG_LEVEL: 'warn',
+    },
+    stdio: ['ignore', 'inherit', 'inherit'],
+  });
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`the server exited with code ${child.exitCode} before answering`);
+    try {
+      if ((await fetch(`${appUrl}/api/health`)).ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error('the server did not answer /api/health within 60 s');
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  project.provide('appUrl', appUrl);
+  return async () => {
+    await new Promise<void>((resolve) => {
+      child.once('exit', () => resolve());
+      child.kill('SIGTERM');
+      setTimeout(() => child.kill('SIGKILL'), 8000).unref();
+    });
+  };
+}
