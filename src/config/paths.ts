@@ -1,0 +1,89 @@
+import type { Permission } from '@shared/permissions';
+
+// Every link in the client comes from here. `path` is the route pattern the router
+// uses; `getHref` builds a concrete link; `permission` (if any) is what a person needs
+// to open the page, which both the navigation and the portal guards read.
+
+interface PathEntry<Args extends unknown[] = []> {
+  path: string;
+  getHref: (...args: Args) => string;
+  permission?: Permission;
+}
+
+function fixed(path: string, permission?: Permission): PathEntry {
+  return { path, getHref: () => path, permission };
+}
+
+function withToken(path: string): PathEntry<[token?: string]> {
+  return { path, getHref: (token?: string) => (token ? `${path}?token=${encodeURIComponent(token)}` : path) };
+}
+
+export const paths = {
+  home: fixed('/'),
+  profile: fixed('/profile', 'profile.read'),
+
+  auth: {
+    signIn: {
+      path: '/sign-in',
+      getHref: (next?: string) => (next ? `/sign-in?next=${encodeURIComponent(next)}` : '/sign-in'),
+    } satisfies PathEntry<[next?: string]>,
+    forgotPassword: fixed('/forgot-password'),
+    resetPassword: withToken('/reset-password'),
+    acceptInvitation: withToken('/accept-invitation'),
+  },
+
+  partner: {
+    root: fixed('/partner'),
+    cases: fixed('/partner/cases', 'referrals.read'),
+    case: {
+      path: '/partner/cases/:caseId',
+      getHref: (caseId: string) => `/partner/cases/${encodeURIComponent(caseId)}`,
+      permission: 'referrals.read',
+    } satisfies PathEntry<[caseId: string]>,
+    newReferral: fixed('/partner/referrals/new', 'referrals.create'),
+    earnings: fixed('/partner/earnings', 'payouts.manage'),
+    staff: fixed('/partner/settings/staff', 'staff.read'),
+    apiKeys: fixed('/partner/settings/api-keys', 'api-keys.manage'),
+    webhooks: fixed('/partner/settings/webhooks', 'webhooks.manage'),
+  },
+
+  lab: {
+    root: fixed('/lab'),
+    offers: fixed('/lab/offers', 'offers.respond'),
+    inbound: fixed('/lab/inbound', 'inbound.read'),
+    bench: fixed('/lab/bench', 'bench.work'),
+    labProfile: fixed('/lab/profile', 'lab-profile.manage'),
+    staff: fixed('/lab/staff', 'staff.read'),
+  },
+
+  admin: {
+    overview: fixed('/admin', 'network.manage'),
+    attention: fixed('/admin/attention', 'network.manage'),
+    labs: fixed('/admin/labs', 'network.organizations.read'),
+    partners: fixed('/admin/partners', 'network.organizations.read'),
+    settlement: fixed('/admin/settlement', 'settlement.run'),
+    audit: fixed('/admin/audit', 'audit.read'),
+  },
+
+  customer: {
+    case: {
+      path: '/c/:token',
+      getHref: (token: string) => `/c/${encodeURIComponent(token)}`,
+    } satisfies PathEntry<[token: string]>,
+  },
+} as const;
+
+export type Portal = 'partner' | 'lab' | 'admin';
+
+/** Route patterns per portal, for the guards. The root entries only redirect onwards. */
+export const portalPaths: Record<Portal, readonly { path: string; permission?: Permission }[]> = {
+  partner: Object.values(paths.partner),
+  lab: Object.values(paths.lab),
+  admin: Object.values(paths.admin),
+};
+
+export const portalPrefixes: Record<Portal, string> = {
+  partner: '/partner',
+  lab: '/lab',
+  admin: '/admin',
+};
