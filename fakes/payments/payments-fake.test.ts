@@ -152,6 +152,18 @@ describe('authentication and errors', () => {
     expect(error.code).toBe('parameter_unknown');
     expect(error.param).toBe('colour');
   });
+
+  it('refuses the Stripe-Account header rather than silently ignoring it', async () => {
+    const error = (await stripe.accounts.list({}, { stripeAccount: 'acct_someone' }).catch((e: unknown) => e)) as Stripe.errors.StripeError;
+    expect(error.statusCode).toBe(400);
+    expect(error.message).toMatch(/does not act on behalf of connected accounts/);
+  });
+
+  it('answers an unknown hosted payment page with a 404 page, not an API error', async () => {
+    const page = await fetch(`${fake.url}/pay/cs_test_nope`);
+    expect(page.status).toBe(404);
+    expect(await page.text()).toContain('This payment link is not valid');
+  });
 });
 
 describe('connected accounts', () => {
@@ -463,7 +475,7 @@ describe('failure injection', () => {
     const transfer = await retrying.transfers.create({ amount: 400, currency: 'usd', destination: destination.id, transfer_group: group });
     expect(transfer.amount).toBe(400);
     expect((await stripe.transfers.list({ transfer_group: group })).data).toHaveLength(1);
-  });
+  }, 15_000); // the client waits about half a second to a second between its retries
 });
 
 describe('transfers', () => {
