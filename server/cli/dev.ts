@@ -7,7 +7,7 @@ import { defaultPorts, fakes, ProcessGroup, stackEnv, startDatabase } from './li
 const ports = defaultPorts(process.env);
 const { cluster, databaseUrl } = await startDatabase(ports, process.env.PG_DATA_DIR ?? '.data/postgres');
 const env = { ...stackEnv(ports, databaseUrl), APP_URL: 'http://localhost:5173' };
-execFileSync(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'scripts/migrate.ts', '--seed'], { stdio: 'inherit', env: { ...process.env, ...env } });
+execFileSync(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'server/cli/migrate.ts', '--seed'], { stdio: 'inherit', env: { ...process.env, ...env } });
 
 const group = new ProcessGroup((name, code) => console.error(`[dev] ${name} exited (code ${code})`));
 for (const fake of fakes) group.spawnTsx(`${fake.name} fake`, [fake.main], env);

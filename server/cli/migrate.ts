@@ -1,6 +1,6 @@
-import { createDataSource, runMigrations } from '../server/db/data-source';
-import { seedDemo } from '../server/db/seed';
-import { loadConfig } from '../server/config';
+import { createDataSource, runMigrations } from '../db/data-source';
+import { seedDemo } from '../db/seed';
+import { loadConfig } from '../config';
 
 // `npm run migration:run` (add `-- --seed` for the demo data): runs pending migrations.
 const config = loadConfig();

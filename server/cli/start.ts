@@ -18,7 +18,7 @@ process.once('SIGINT', () => void stop(0));
 process.once('SIGTERM', () => void stop(0));
 
 try {
-  execFileSync(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'scripts/migrate.ts', '--seed'], {
+  execFileSync(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'server/cli/migrate.ts', '--seed'], {
     stdio: 'inherit',
     env: { ...process.env, ...env },
   });

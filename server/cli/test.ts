@@ -22,7 +22,7 @@ try {
   await ensureDatabase(cluster, 'platterpost_test');
   const env = { ...process.env, DATABASE_URL: cluster.url('platterpost_test'), TEST_PG_ADMIN_URL: cluster.url('postgres'), NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' };
   const tsx = path.join('node_modules', 'tsx', 'dist', 'cli.mjs');
-  const migrate = spawnSync(process.execPath, [tsx, 'scripts/migrate.ts', '--seed'], { stdio: 'inherit', env });
+  const migrate = spawnSync(process.execPath, [tsx, 'server/cli/migrate.ts', '--seed'], { stdio: 'inherit', env });
   if (migrate.status !== 0) throw new Error('migrations failed');
   // The browser suite needs the built client; a run of other projects only does not.
   const args = process.argv.slice(2);

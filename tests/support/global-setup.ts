@@ -1,7 +1,7 @@
 import type { TestProject } from 'vitest/node';
 import { createMailFake } from '../../fakes/mail/mail-fake';
 
-// Shared by the API and browser suites: the database that scripts/test.ts migrated and
+// Shared by the API and browser suites: the database that server/cli/test.ts migrated and
 // seeded, and a mail fake on free ports.
 export default async function setup(project: TestProject) {
   const databaseUrl = process.env.DATABASE_URL;
