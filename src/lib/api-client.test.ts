@@ -26,11 +26,11 @@ function stubFetch(handler: Handler) {
 const authHeader = (init: RequestInit) => (init.headers as Record<string, string>).Authorization;
 
 describe('api client', () => {
-  let ended: ReturnType<typeof vi.fn>;
+  let ended: ReturnType<typeof vi.fn<() => void>>;
 
   beforeEach(() => {
     setAccessToken(null);
-    ended = vi.fn();
+    ended = vi.fn<() => void>();
     setUnauthenticatedHandler(ended);
   });
 
@@ -45,7 +45,7 @@ describe('api client', () => {
     const result = await api.post('/things', { body: { name: 'box' } });
 
     expect(result).toEqual({ ok: true });
-    const [url, init] = fetchMock.mock.calls[0];
+    const [url, init = {}] = fetchMock.mock.calls[0];
     expect(url).toBe('/api/things');
     expect(init).toMatchObject({ method: 'POST', credentials: 'include', body: JSON.stringify({ name: 'box' }) });
     expect(init.headers).toMatchObject({ Authorization: 'Bearer token-a', 'Content-Type': 'application/json' });
@@ -130,7 +130,7 @@ describe('api client', () => {
 
     expect(error).toMatchObject({ status: 401, message: 'That e-mail and password do not match an account.' });
     expect(fetchMock).toHaveBeenCalledTimes(1);
-    expect(authHeader(fetchMock.mock.calls[0][1])).toBeUndefined();
+    expect(authHeader(fetchMock.mock.calls[0][1] ?? {})).toBeUndefined();
     expect(ended).not.toHaveBeenCalled();
   });
 

@@ -1,0 +1,164 @@
+import AxeBuilder from '@axe-core/playwright';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import type { Role } from '@shared/vocabulary';
+import { demoAccounts, DEMO_PASSWORD, type DemoAccount } from '../../server/db/seed/demo-accounts';
+import { appUrl, launchBrowser, signIn } from '../support/browser';
+
+// Each role's first page after sign-in and the heading it shows (product brief: "Homes per role").
+const homes: Record<Role, { path: string; heading: string }> = {
+  partner_admin: { path: '/partner/cases', heading: 'Cases' },
+  partner_staff: { path: '/partner/cases', heading: 'Cases' },
+  shipping_clerk: { path: '/lab/inbound', heading: 'Inbound boxes' },
+  lab_manager: { path: '/lab/offers', heading: 'Offers' },
+  lab_technician: { path: '/lab/bench', heading: 'Bench queue' },
+  network_admin: { path: '/admin', heading: 'Network overview' },
+};
+
+const account = (role: Role): DemoAccount => {
+  const found = demoAccounts.find((candidate) => candidate.role === role);
+  if (!found) throw new Error(`no demo account for ${role}`);
+  return found;
+};
+
+let browser: Browser;
+let context: BrowserContext;
+let page: Page;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function freshPage(): Promise<Page> {
+  context = await browser.newContext();
+  page = await context.newPage();
+  return page;
+}
+
+afterEach(async () => {
+  await context?.close();
+});
+
+const pathname = (p: Page) => new URL(p.url()).pathname;
+
+async function seesHeading(p: Page, name: string): Promise<void> {
+  await p.getByRole('heading', { level: 1, name, exact: true }).waitFor({ state: 'visible' });
+}
+
+/** Only these two axe impact levels fail the check; minor and moderate findings are reported in the message. */
+async function seriousViolations(p: Page): Promise<string[]> {
+  const results = await new AxeBuilder({ page: p }).analyze();
+  return results.violations
+    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
+    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).join(', ')}`);
+}
+
+describe('app shell', () => {
+  it.each(demoAccounts)('signs in the demo $role through the form and shows its own home', async (demo) => {
+    const p = await freshPage();
+
+    await signIn(p, demo.email, DEMO_PASSWORD);
+
+    const home = homes[demo.role];
+    await seesHeading(p, home.heading);
+    expect(pathname(p)).toBe(home.path);
+    const header = p.getByRole('banner');
+    expect(await header.getByText(demo.name, { exact: true }).isVisible()).toBe(true);
+  });
+
+  it('shows the navigation a lab technician may use and hides the manager-only pages', async () => {
+    const p = await freshPage();
+    await signIn(p, account('lab_technician').email, DEMO_PASSWORD);
+    await seesHeading(p, 'Bench queue');
+
+    const nav = p.getByRole('navigation', { name: 'Lab' });
+    const links = (await nav.getByRole('link').allTextContents()).map((text) => text.trim());
+    expect(links).toEqual(['Bench queue']);
+  });
+
+  it('signs out back to the sign-in page, and the session does not come back on reload', async () => {
+    const p = await freshPage();
+    await signIn(p, account('partner_staff').email, DEMO_PASSWORD);
+    await seesHeading(p, 'Cases');
+
+    await p.getByRole('button', { name: 'Sign out' }).click();
+
+    await seesHeading(p, 'Sign in');
+    expect(pathname(p)).toBe('/sign-in');
+    await p.goto(appUrl('/partner/cases'));
+    await seesHeading(p, 'Sign in');
+    expect(pathname(p)).toBe('/sign-in');
+  });
+
+  it('keeps the session across a page reload', async () => {
+    const p = await freshPage();
+    await signIn(p, account('shipping_clerk').email, DEMO_PASSWORD);
+    await seesHeading(p, 'Inbound boxes');
+
+    await p.reload();
+
+    await seesHeading(p, 'Inbound boxes');
+    expect(pathname(p)).toBe('/lab/inbound');
+  });
+
+  it('shows the server’s message when the password is wrong, and stays on sign-in', async () => {
+    const p = await freshPage();
+    // The server answers an unknown address with the same message as a wrong password;
+    // asking with an unknown address does not count a failure against a real account.
+    const probe = await p.request.post(appUrl('/api/auth/sign-in'), { data: { email: 'nobody-here@platterpost.example', password: 'wrong-password' } });
+    expect(probe.status()).toBe(401);
+    const expected = ((await probe.json()) as { error: { message: string } }).error.message;
+
+    await signIn(p, account('partner_admin').email, 'not-the-demo-password');
+
+    const alert = p.getByRole('alert').filter({ hasText: expected });
+    await alert.waitFor({ state: 'visible' });
+    expect(pathname(p)).toBe('/sign-in');
+    expect(await p.getByLabel('Password').getAttribute('type')).toBe('password');
+  });
+
+  it('sends a signed-out visitor to sign-in and, after signing in, on to the page they asked for', async () => {
+    const p = await freshPage();
+
+    await p.goto(appUrl('/lab/bench'));
+    await seesHeading(p, 'Sign in');
+    expect(new URL(p.url()).searchParams.get('next')).toBe('/lab/bench');
+    await p.getByLabel('E-mail').fill(account('lab_manager').email);
+    await p.getByLabel('Password').fill(DEMO_PASSWORD);
+    await p.getByRole('button', { name: 'Sign in' }).click();
+
+    await seesHeading(p, 'Bench queue');
+    expect(pathname(p)).toBe('/lab/bench');
+  });
+
+  it('sends a person who opens another portal’s page to their own home', async () => {
+    const p = await freshPage();
+    await signIn(p, account('partner_staff').email, DEMO_PASSWORD);
+    await seesHeading(p, 'Cases');
+
+    await p.goto(appUrl('/admin/settlement'));
+
+    await seesHeading(p, 'Cases');
+    expect(pathname(p)).toBe('/partner/cases');
+  });
+
+  it('reports no serious or critical accessibility violation on the sign-in page', async () => {
+    const p = await freshPage();
+    await p.goto(appUrl('/sign-in'));
+    await seesHeading(p, 'Sign in');
+
+    expect(await seriousViolations(p)).toEqual([]);
+  });
+
+  it('reports no serious or critical accessibility violation on a home page', async () => {
+    const p = await freshPage();
+    await signIn(p, account('partner_admin').email, DEMO_PASSWORD);
+    await seesHeading(p, 'Cases');
+
+    expect(await seriousViolations(p)).toEqual([]);
+  });
+});
