@@ -29,6 +29,8 @@ const configSchema = z
     UPLOAD_DIR: z.string().default('.data/uploads'),
     RUN_WORKERS: bool.default(true),
     JSON_BODY_LIMIT: z.string().default('256kb'),
+    /** Requests per minute per partner API key; load tests raise it. */
+    PARTNER_API_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(600),
   })
   .transform((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.JWT_SECRET) {
@@ -56,6 +58,7 @@ const configSchema = z
       uploadDir: env.UPLOAD_DIR,
       runWorkers: env.RUN_WORKERS,
       jsonBodyLimit: env.JSON_BODY_LIMIT,
+      partnerApiRateLimitPerMinute: env.PARTNER_API_RATE_LIMIT_PER_MINUTE,
     };
   });
 
