@@ -381,6 +381,32 @@ describe('shipping fake through the official @easypost/api client', () => {
   });
 });
 
+describe('shipping fake with a configured webhook URL', () => {
+  it('signs events to webhookUrl with webhookSecret, and sends each event once when the same URL is also registered', async () => {
+    const configured = createShippingFake({ port: 0, apiKey: API_KEY, clockSpeed: 0, webhookUrl: receiverUrl, webhookSecret: 'configured-secret', webhookRetryDelaysMs: [5] });
+    await configured.start();
+    try {
+      const configuredClient = new EasyPostClient(API_KEY, { baseUrl: configured.baseUrl });
+      const first = await configuredClient.Shipment.create({ from_address: shop, to_address: nearLab, parcel: box });
+      const firstBought = await configuredClient.Shipment.buy(first.id, first.lowestRate());
+      await configured.webhooksIdle();
+      const [event] = eventsFor(firstBought.tracker.id);
+      expect(configuredClient.Utils.validateWebhook(event.raw, event.headers, 'configured-secret')).toMatchObject({ description: 'tracker.created' });
+
+      // Registered without a secret of its own: signed with the configured secret, delivered once.
+      await configuredClient.Webhook.create({ url: receiverUrl });
+      const second = await configuredClient.Shipment.create({ from_address: shop, to_address: nearLab, parcel: box });
+      const secondBought = await configuredClient.Shipment.buy(second.id, second.lowestRate());
+      await configured.webhooksIdle();
+      const events = eventsFor(secondBought.tracker.id);
+      expect(events).toHaveLength(1);
+      expect(() => configuredClient.Utils.validateWebhook(events[0].raw, events[0].headers, 'configured-secret')).not.toThrow();
+    } finally {
+      await configured.stop();
+    }
+  });
+});
+
 describe('shipping fake clock speed', () => {
   it('runs the simulated clock faster than real time when clockSpeed is set', async () => {
     // One real millisecond is ten simulated hours, so a parcel is delivered within moments.

@@ -203,6 +203,12 @@ export function createShippingFake(options: ShippingFakeOptions) {
     log = () => {},
   } = options;
   if (!apiKey) throw new Error('createShippingFake needs an apiKey');
+  let configuredWebhookUrl: string | undefined;
+  try {
+    configuredWebhookUrl = webhookUrl ? new URL(webhookUrl).toString() : undefined;
+  } catch {
+    throw new Error(`webhookUrl must be a URL, got ${JSON.stringify(webhookUrl)}`);
+  }
   if (!Number.isFinite(clockSpeed) || clockSpeed < 0) throw new RangeError(`clockSpeed must be a number ≥ 0, got ${clockSpeed}`);
 
   let boundPort = options.port;
@@ -580,12 +586,15 @@ export function createShippingFake(options: ShippingFakeOptions) {
 
   function emit(description: string, tracker: TrackerObject, previous: Json): EventObject {
     const at = isoSeconds(nowMs());
-    const targets = [
-      ...[...state.webhooks.values()]
-        .filter((w) => !w.disabled_at)
-        .map((w) => ({ url: w.url, secret: w.secret ?? webhookSecret, customHeaders: w.customHeaders })),
-      ...(webhookUrl ? [{ url: webhookUrl, secret: webhookSecret, customHeaders: [] }] : []),
-    ];
+    const registered = [...state.webhooks.values()]
+      .filter((w) => !w.disabled_at)
+      .map((w) => ({ url: w.url, secret: w.secret ?? webhookSecret, customHeaders: w.customHeaders }));
+    // The configured URL gets each event once, even when our server also registered it.
+    const configured =
+      configuredWebhookUrl && !registered.some((t) => t.url === configuredWebhookUrl)
+        ? [{ url: configuredWebhookUrl, secret: webhookSecret, customHeaders: [] }]
+        : [];
+    const targets = [...registered, ...configured];
     const event: EventObject = {
       id: newId('evt'),
       object: 'Event',
@@ -671,6 +680,16 @@ export function createShippingFake(options: ShippingFakeOptions) {
   app.disable('x-powered-by');
   app.set('trust proxy', false);
   app.use(express.json({ limit: '1mb' }));
+
+  app.get('/', (_req, res) => {
+    res.json({
+      service: 'Platterpost shipping fake',
+      api: '/v2/',
+      now: new Date(nowMs()).toISOString(),
+      clockSpeed,
+      carriers: [...new Set(carrierServices.map((s) => s.carrier))],
+    });
+  });
 
   // Test controls: no API key, like any other local-only switch.
   app.get('/_fake/clock', (_req, res) => {
