@@ -34,9 +34,9 @@ let receiverUrl: string;
 const received: Received[] = [];
 let failNextDeliveries = 0;
 
-const shop = { name: 'Counterpoint Repairs', street1: '2 Market St', city: 'San Francisco', state: 'CA', zip: '94105', country: 'US' };
-const farLab = { name: 'Intake desk', company: 'Northlight Recovery Lab', street1: '100 W 33rd St', city: 'New York', state: 'NY', zip: '10001', country: 'US' };
-const nearLab = { name: 'Intake desk', company: 'Baylight Recovery Lab', street1: '1 King St', city: 'San Francisco', state: 'CA', zip: '94107', country: 'US' };
+const shop = { name: 'Tinplate Repairs', street1: '2 Market St', city: 'San Francisco', state: 'CA', zip: '94105', country: 'US' };
+const farLab = { name: 'Intake desk', company: 'Heronmoor Recovery Lab', street1: '100 W 33rd St', city: 'New York', state: 'NY', zip: '10001', country: 'US' };
+const nearLab = { name: 'Intake desk', company: 'Saltmarsh Data Lab', street1: '1 King St', city: 'San Francisco', state: 'CA', zip: '94107', country: 'US' };
 // 12 × 10 × 8 in at 3 lb: billed at its dimensional weight, 960 ÷ 139 → 7 lb.
 const box = { length: 12, width: 10, height: 8, weight: 48 };
 
@@ -193,7 +193,7 @@ describe('shipping fake through the official @easypost/api client', () => {
     expect(views).toEqual([[0, 0, 288, 432]]);
     expect(pdf.toString('latin1')).toMatch(/\/MediaBox \[0 0 288 432\]/);
     expect(parsed.text).toContain(bought.tracking_code);
-    expect(parsed.text).toContain('Northlight Recovery Lab');
+    expect(parsed.text).toContain('Heronmoor Recovery Lab');
     expect(parsed.text).toContain('BRAMBLEWAY');
 
     const pngResponse = await fetch(bought.postage_label.label_url);
