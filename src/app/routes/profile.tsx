@@ -15,7 +15,7 @@ export default function ProfilePage() {
   return (
     <>
       <PageHeader title="Your profile" description="How you sign in to Platterpost and who you work for." />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid items-start gap-6 lg:grid-cols-2">
         <Card title="Your details" description="Your organisation’s admin can change your role.">
           <dl className="grid grid-cols-[max-content_1fr] gap-x-6 gap-y-3 text-sm">
             {details.map(([term, value]) => (

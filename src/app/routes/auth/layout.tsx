@@ -11,7 +11,7 @@ const promises = [
 export default function AuthLayout() {
   return (
     <div className="grid min-h-screen lg:grid-cols-[minmax(0,5fr)_minmax(0,6fr)]">
-      <div className="relative overflow-hidden bg-spruce-900 px-6 py-8 text-paper sm:px-10 lg:py-14">
+      <aside aria-label="About Platterpost" className="relative overflow-hidden bg-spruce-900 px-6 py-8 text-paper sm:px-10 lg:py-14">
         <svg aria-hidden="true" viewBox="0 0 400 400" className="pointer-events-none absolute -right-24 -bottom-24 hidden size-[28rem] text-spruce-700 lg:block" fill="none">
           <circle cx="200" cy="200" r="190" stroke="currentColor" strokeWidth="2" />
           <circle cx="200" cy="200" r="150" stroke="currentColor" strokeWidth="1.5" />
@@ -37,7 +37,7 @@ export default function AuthLayout() {
             ))}
           </ul>
         </div>
-      </div>
+      </aside>
       <main id="main" className="flex items-start justify-center px-4 py-10 sm:px-8 lg:items-center">
         <div className="w-full max-w-sm">
           <Outlet />

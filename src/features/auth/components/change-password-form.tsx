@@ -26,7 +26,9 @@ export function ChangePasswordForm() {
     >
       {({ register, formState }) => (
         <>
-          <div role="status">{changed ? <Alert tone="success">Your password is changed.</Alert> : null}</div>
+          <div role="status" className={changed ? undefined : 'sr-only'}>
+            {changed ? <Alert tone="success">Your password is changed.</Alert> : null}
+          </div>
           <Input label="Current password" type="password" autoComplete="current-password" error={formState.errors.currentPassword?.message} {...register('currentPassword')} />
           <Input
             label="New password"
