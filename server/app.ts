@@ -11,6 +11,7 @@ import type { Config } from './config';
 import { errorHandler, notFoundHandler } from './lib/errors';
 import { logger, requestContext } from './lib/logger';
 import { organizationRoutes } from './organizations';
+import { apiKeyRoutes, partnerApiRoutes } from './partner-api';
 
 export interface AppDeps {
   config: Config;
@@ -69,6 +70,8 @@ export function createApp({ config, db }: AppDeps): Express {
   });
   app.use('/api/auth', authRoutes(ctx, guard));
   app.use('/api', organizationRoutes(ctx, guard));
+  app.use('/api', apiKeyRoutes(ctx, guard));
+  app.use('/api/v1', partnerApiRoutes(ctx));
   app.use('/api', notFoundHandler);
 
   // The built client, with the router's paths falling back to index.html.

@@ -3,5 +3,6 @@ import { AuditEvent } from '../audit/entities';
 import { OneTimeToken, RefreshToken, User } from '../auth/entities';
 import { OutboxMessage } from '../notifications/entities';
 import { Organization } from '../organizations/entities';
+import { ApiKey, IdempotencyRecord } from '../partner-api/entities';
 
-export const entities = [Organization, User, RefreshToken, OneTimeToken, OutboxMessage, AuditEvent];
+export const entities = [Organization, User, RefreshToken, OneTimeToken, OutboxMessage, AuditEvent, ApiKey, IdempotencyRecord];

@@ -1,4 +1,5 @@
 // Listed by hand, oldest first: migrations are reviewed code, not a folder glob.
 import { Foundation1764633600000 } from './1764633600000-foundation';
+import { PartnerApi1764892800000 } from './1764892800000-partner-api';
 
-export const migrations = [Foundation1764633600000];
+export const migrations = [Foundation1764633600000, PartnerApi1764892800000];
