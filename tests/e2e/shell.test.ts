@@ -3,6 +3,7 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '@shared/vocabulary';
 import { demoAccounts, DEMO_PASSWORD, type DemoAccount } from '../../server/db/seed/demo-accounts';
+import { linkToken, unique, waitForMail } from '../support/api';
 import { appUrl, launchBrowser, signIn } from '../support/browser';
 
 // Each role's first page after sign-in and the heading it shows (product brief: "Homes per role").
@@ -55,6 +56,36 @@ async function seriousViolations(p: Page): Promise<string[]> {
   return results.violations
     .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
     .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).join(', ')}`);
+}
+
+/** The lab manager invites a new technician through the Staff page; returns the address invited. */
+async function inviteTechnician(p: Page, name: string): Promise<string> {
+  const email = `${unique('tech-')}@quillmark.example`;
+  await signIn(p, account('lab_manager').email, DEMO_PASSWORD);
+  await seesHeading(p, 'Offers');
+  await p.getByRole('navigation', { name: 'Lab' }).getByRole('link', { name: 'Staff' }).click();
+  await seesHeading(p, 'Staff');
+  await p.getByRole('button', { name: 'Invite a person' }).click();
+  const dialog = p.getByRole('dialog', { name: 'Invite a person' });
+  await dialog.getByLabel('Name').fill(name);
+  await dialog.getByLabel('E-mail').fill(email);
+  await dialog.getByLabel('Role').selectOption({ label: 'Lab technician' });
+  await dialog.getByRole('button', { name: 'Send invitation' }).click();
+  await p.getByRole('row').filter({ hasText: email }).filter({ hasText: 'Invitation sent' }).waitFor();
+  return email;
+}
+
+/** Opens the e-mailed invitation in a new browser context and joins with this password. */
+async function acceptInvitation(email: string, password: string): Promise<Page> {
+  const token = linkToken((await waitForMail(email, (mail) => mail.text.includes('/accept-invitation'))).text, '/accept-invitation');
+  await context.close();
+  const p = await freshPage();
+  await p.goto(appUrl(`/accept-invitation?token=${encodeURIComponent(token)}`));
+  await p.getByRole('heading', { level: 1, name: /^Join / }).waitFor();
+  await p.getByLabel('Choose a password').fill(password);
+  await p.getByLabel('Password again').fill(password);
+  await p.getByRole('button', { name: 'Join and sign in' }).click();
+  return p;
 }
 
 describe('app shell', () => {
@@ -144,6 +175,40 @@ describe('app shell', () => {
 
     await seesHeading(p, 'Cases');
     expect(pathname(p)).toBe('/partner/cases');
+  });
+
+  it('lets a lab manager invite a technician, who joins from the e-mailed link and lands on the bench queue', async () => {
+    const name = 'Dana Okafor';
+    const email = await inviteTechnician(await freshPage(), name);
+
+    const p = await acceptInvitation(email, 'a-new-technician-password');
+
+    await seesHeading(p, 'Bench queue');
+    expect(pathname(p)).toBe('/lab/bench');
+    expect(await p.getByRole('banner').getByText(name, { exact: true }).isVisible()).toBe(true);
+  });
+
+  it('lets a person reset a forgotten password from the e-mailed link and sign in with the new one', async () => {
+    const email = await inviteTechnician(await freshPage(), 'Rory Castellan');
+    const joined = await acceptInvitation(email, 'first-password-chosen');
+    await seesHeading(joined, 'Bench queue');
+    await joined.getByRole('button', { name: 'Sign out' }).click();
+    await seesHeading(joined, 'Sign in');
+
+    await joined.getByRole('link', { name: 'Forgot your password?' }).click();
+    await joined.getByLabel('E-mail').fill(email);
+    await joined.getByRole('button', { name: 'Send me a link' }).click();
+    await joined.getByText('Check your inbox').waitFor();
+    const mail = await waitForMail(email, (message) => message.text.includes('/reset-password'));
+    await joined.goto(appUrl(`/reset-password?token=${encodeURIComponent(linkToken(mail.text, '/reset-password'))}`));
+    await joined.getByLabel('New password', { exact: true }).fill('second-password-chosen');
+    await joined.getByLabel('New password again').fill('second-password-chosen');
+    await joined.getByRole('button', { name: 'Save new password' }).click();
+    await seesHeading(joined, 'Sign in');
+    await joined.getByText('Your password is changed').waitFor();
+    await signIn(joined, email, 'second-password-chosen');
+
+    await seesHeading(joined, 'Bench queue');
   });
 
   it('reports no serious or critical accessibility violation on the sign-in page', async () => {
