@@ -11,6 +11,9 @@ export const permissions = {
   'referrals.create': ['partner_admin', 'partner_staff'],
   'referrals.read': ['partner_admin', 'partner_staff', 'network_admin'],
   'api-keys.manage': ['partner_admin'],
+  'photos.upload': ['partner_admin', 'partner_staff'],
+  // Every role may ask; the server shows a photo only to those who may see its case.
+  'photos.read': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
   'webhooks.manage': ['partner_admin'],
   'payouts.manage': ['partner_admin'],
   'offers.respond': ['lab_manager'],
