@@ -29,6 +29,8 @@ const configSchema = z
     UPLOAD_DIR: z.string().default('.data/uploads'),
     RUN_WORKERS: bool.default(true),
     JSON_BODY_LIMIT: z.string().default('256kb'),
+    /** Business hours (in the lab's calendar) a lab has to answer an offer. */
+    OFFER_RESPONSE_BUSINESS_HOURS: z.coerce.number().positive().max(80).default(4),
     /** Requests per minute per partner API key; load tests raise it. */
     PARTNER_API_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(600),
   })
@@ -58,6 +60,7 @@ const configSchema = z
       uploadDir: env.UPLOAD_DIR,
       runWorkers: env.RUN_WORKERS,
       jsonBodyLimit: env.JSON_BODY_LIMIT,
+      offerResponseBusinessHours: env.OFFER_RESPONSE_BUSINESS_HOURS,
       partnerApiRateLimitPerMinute: env.PARTNER_API_RATE_LIMIT_PER_MINUTE,
     };
   });
