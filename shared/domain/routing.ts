@@ -134,27 +134,77 @@ function validateCase(kase: RoutingCase, options: RoutingOptions): void {
   }
 }
 
-function profileProblems(lab: RoutingLab, asOf: Date): string[] {
-  const problems: string[] = [];
-  try {
-    geodesicDistanceKm(lab.location, lab.location);
-  } catch (error) {
-    problems.push(`location: ${(error as Error).message.replace(/^from\./, '')}`);
+// A certificate's class never changes, and labs share a handful of time zones: both are worked out
+// once, which keeps ranking thousands of labs within a few milliseconds.
+const classificationCache = new WeakMap<object, ReturnType<typeof classifyCertificate> | Error>();
+function classifyOnce(certificate: NonNullable<RoutingLab['cleanAirCertificate']>) {
+  let cached = classificationCache.get(certificate);
+  if (!cached) {
+    try {
+      cached = classifyCertificate(certificate);
+    } catch (error) {
+      cached = error as Error;
+    }
+    classificationCache.set(certificate, cached);
   }
-  if (!DateTime.fromJSDate(asOf).setZone(lab.timeZone).isValid) problems.push(`time zone "${lab.timeZone}" is not an IANA time zone`);
+  if (cached instanceof Error) throw cached;
+  return cached;
+}
+
+
+const failureTextCache = new WeakMap<object, string>();
+function classFailureText(certificate: NonNullable<RoutingLab['cleanAirCertificate']>): string {
+  let text = failureTextCache.get(certificate);
+  if (text === undefined) {
+    text = evaluateClass(certificate, MECHANICAL_WORK_MAX_ISO_CLASS).failures.map((f) => f.message).join(' ');
+    failureTextCache.set(certificate, text);
+  }
+  return text;
+}
+
+class ZoneDays {
+  private readonly today = new Map<string, string | null>();
+  private readonly due = new Map<string, string>();
+  dueDate(testedOn: string, isoClass: IsoClass): string {
+    const key = `${testedOn}|${isoClass}`;
+    let value = this.due.get(key);
+    if (value === undefined) this.due.set(key, (value = retestDueDate(testedOn, isoClass)));
+    return value;
+  }
+  constructor(private readonly asOf: Date) {}
+  /** The calendar date in a time zone, or null when the zone is not a valid IANA zone. */
+  todayIn(timeZone: string): string | null {
+    let value = this.today.get(timeZone);
+    if (value === undefined) {
+      const local = DateTime.fromJSDate(this.asOf).setZone(timeZone);
+      value = local.isValid ? (local.toISODate() as string) : null;
+      this.today.set(timeZone, value);
+    }
+    return value;
+  }
+}
+
+function profileProblems(lab: RoutingLab, zones: ZoneDays, required: readonly LabSkill[]): string[] {
+  const problems: string[] = [];
+  const { lat, lon } = lab.location ?? ({} as LatLon);
+  if (!(typeof lat === 'number' && lat >= -90 && lat <= 90 && typeof lon === 'number' && lon >= -180 && lon <= 180)) {
+    problems.push(`location: latitude must be within ±90° and longitude within ±180°, got ${lat}, ${lon}`);
+  }
+  if (zones.todayIn(lab.timeZone) === null) problems.push(`time zone "${lab.timeZone}" is not an IANA time zone`);
   if (!Number.isInteger(lab.openCases) || lab.openCases < 0) problems.push(`open cases must be a whole number ≥ 0, got ${lab.openCases}`);
   if (!Number.isInteger(lab.queueCapacity) || lab.queueCapacity < 0) problems.push(`queue capacity must be a whole number ≥ 0, got ${lab.queueCapacity}`);
   if (!Number.isFinite(lab.weeklyThroughput) || lab.weeklyThroughput < 0) problems.push(`weekly throughput must be a number ≥ 0, got ${lab.weeklyThroughput}`);
-  for (const [skill, days] of Object.entries(lab.turnaroundDays)) {
-    if (!labSkills.includes(skill as LabSkill)) problems.push(`unknown skill "${skill}"`);
-    else if (!Number.isFinite(days) || (days as number) <= 0) problems.push(`turnaround for ${skill} must be a positive number of days, got ${days}`);
+  // Only the skills this case needs are read, so only they are checked (the profile form checks the rest).
+  for (const skill of required) {
+    const days = lab.turnaroundDays[skill];
+    if (days !== undefined && !(Number.isFinite(days) && days > 0)) problems.push(`turnaround for ${skill} must be a positive number of days, got ${days}`);
   }
   return problems;
 }
 
 function checkCleanAir(
   lab: RoutingLab,
-  asOf: Date,
+  zones: ZoneDays,
 ): { ok: true; isoClass: IsoClass; testedOn: string; currentUntil: string } | { ok: false; reason: ExclusionReason } {
   const certificate = lab.cleanAirCertificate;
   const needed = `ISO class ${MECHANICAL_WORK_MAX_ISO_CLASS} or cleaner`;
@@ -163,7 +213,7 @@ function checkCleanAir(
   }
   let classification;
   try {
-    classification = classifyCertificate(certificate);
+    classification = classifyOnce(certificate);
   } catch (error) {
     return { ok: false, reason: { code: 'clean_air_unusable', message: `The clean-air certificate cannot be read: ${(error as Error).message}.` } };
   }
@@ -173,12 +223,13 @@ function checkCleanAir(
   const { isoClass } = classification;
   if (isoClass === null || isoClass > MECHANICAL_WORK_MAX_ISO_CLASS) {
     const measured = isoClass === null ? 'demonstrates no ISO class' : `measures ISO class ${isoClass}`;
-    const why = evaluateClass(certificate, MECHANICAL_WORK_MAX_ISO_CLASS).failures.map((f) => f.message).join(' ');
+    const why = classFailureText(certificate);
     return { ok: false, reason: { code: 'clean_air_class', message: `The clean-air certificate of ${certificate.testedOn} ${measured}; head swaps and platter work need ${needed}. ${why}`.trim() } };
   }
-  const today = DateTime.fromJSDate(asOf).setZone(lab.timeZone).toISODate() as string;
-  const currentUntil = retestDueDate(certificate.testedOn, isoClass);
-  if (!isCertificateCurrent(certificate.testedOn, isoClass, today)) {
+  const today = zones.todayIn(lab.timeZone) as string;
+  const currentUntil = zones.dueDate(certificate.testedOn, isoClass);
+  // ISO calendar dates compare as strings; equivalent to isCertificateCurrent without re-parsing per lab.
+  if (!(certificate.testedOn <= today && today <= currentUntil)) {
     const message =
       certificate.testedOn > today
         ? `The clean-air certificate is dated ${certificate.testedOn}, after today (${today}).`
@@ -204,39 +255,50 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[], option
   const excluded: ExcludedLab[] = [];
   const candidates: Array<Omit<RankedLab, 'rank'> & { sortKey: number }> = [];
 
+  const zones = new ZoneDays(options.asOf);
+  const inactiveReason: ExclusionReason = { code: 'inactive', message: 'Lab is not active on the network.' };
+  const previouslyOfferedReason: ExclusionReason = { code: 'previously_offered', message: 'Lab was already offered this case.' };
+  const mediaReason: ExclusionReason = { code: 'media_type', message: `Lab does not take ${mediaTypeLabels[kase.mediaType]} media.` };
+  const healthReason: ExclusionReason = { code: 'health_data_agreement', message: 'Case holds health records and the lab has not signed the health-data agreement.' };
+  const throughputReason: ExclusionReason = { code: 'no_throughput', message: 'Lab reports no weekly throughput, so its queue time cannot be estimated.' };
+  const missingReasons = new Map<string, ExclusionReason>();
   for (const lab of labs) {
-    const problems = profileProblems(lab, options.asOf);
+    const problems = profileProblems(lab, zones, required);
     if (problems.length > 0) {
       excluded.push({ labId: lab.id, labName: lab.name, reasons: [{ code: 'invalid_profile', message: `Lab profile is incomplete: ${problems.join('; ')}.` }] });
       continue;
     }
-    const reasons: ExclusionReason[] = [];
-    if (!lab.active) reasons.push({ code: 'inactive', message: 'Lab is not active on the network.' });
-    if (previouslyOffered.has(lab.id)) reasons.push({ code: 'previously_offered', message: 'Lab was already offered this case.' });
-    if (!lab.mediaTypes.includes(kase.mediaType)) {
-      reasons.push({ code: 'media_type', message: `Lab does not take ${mediaTypeLabels[kase.mediaType]} media.` });
+    // Reasons are built from strings made once per case; most labs are excluded, so this loop stays lean.
+    // (No closure per lab: the TypeScript runner wraps every function it creates, which is slow in a hot loop.)
+    let reasons: ExclusionReason[] | null = null;
+    if (!lab.active) (reasons ??= []).push(inactiveReason);
+    if (previouslyOffered.has(lab.id)) (reasons ??= []).push(previouslyOfferedReason);
+    if (!lab.mediaTypes.includes(kase.mediaType)) (reasons ??= []).push(mediaReason);
+    let missingKey = '';
+    for (const s of required) if (lab.turnaroundDays[s] === undefined) missingKey += missingKey ? `,${s}` : s;
+    if (missingKey) {
+      let reason = missingReasons.get(missingKey);
+      if (!reason) {
+        reason = { code: 'missing_skills', message: `Lab lacks ${missingKey.split(',').map((k) => labSkillLabels[k as LabSkill]).join(', ')}.` };
+        missingReasons.set(missingKey, reason);
+      }
+      (reasons ??= []).push(reason);
     }
-    const missing = required.filter((s) => lab.turnaroundDays[s] === undefined);
-    if (missing.length > 0) {
-      reasons.push({ code: 'missing_skills', message: `Lab lacks ${missing.map((s) => labSkillLabels[s]).join(', ')}.` });
-    }
-    if (kase.requirements.needsHealthDataAgreement && !lab.healthDataAgreement) {
-      reasons.push({ code: 'health_data_agreement', message: 'Case holds health records and the lab has not signed the health-data agreement.' });
-    }
+    if (kase.requirements.needsHealthDataAgreement && !lab.healthDataAgreement) (reasons ??= []).push(healthReason);
     if (lab.openCases >= lab.queueCapacity) {
-      reasons.push({ code: 'queue_full', message: `Queue is full (${lab.openCases} open of ${lab.queueCapacity}).` });
+      (reasons ??= []).push({ code: 'queue_full', message: `Queue is full (${lab.openCases} open of ${lab.queueCapacity}).` });
     }
-    if (lab.weeklyThroughput === 0) {
-      reasons.push({ code: 'no_throughput', message: 'Lab reports no weekly throughput, so its queue time cannot be estimated.' });
-    }
+    if (lab.weeklyThroughput === 0) (reasons ??= []).push(throughputReason);
     let cleanAir: RankedLab['cleanAir'];
     // Only check clean air when the lab offers the mechanical work at all; otherwise the missing skill says it.
-    if (needsCleanAir && mechanicalSkills.every((s) => lab.turnaroundDays[s] !== undefined)) {
-      const check = checkCleanAir(lab, options.asOf);
+    let offersMechanical = true;
+    for (const s of mechanicalSkills) if (lab.turnaroundDays[s] === undefined) offersMechanical = false;
+    if (needsCleanAir && offersMechanical) {
+      const check = checkCleanAir(lab, zones);
       if (check.ok) cleanAir = { isoClass: check.isoClass, testedOn: check.testedOn, currentUntil: check.currentUntil };
-      else reasons.push(check.reason);
+      else (reasons ??= []).push(check.reason);
     }
-    if (reasons.length > 0) {
+    if (reasons) {
       excluded.push({ labId: lab.id, labName: lab.name, reasons });
       continue;
     }
@@ -248,7 +310,8 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[], option
     const queueRaw = (lab.openCases / lab.weeklyThroughput) * BUSINESS_DAYS_PER_WEEK;
     // The slowest required step bounds the case; "hardest" is the skill with the lab's longest turnaround,
     // the first in vocabulary order on a tie.
-    const hardestSkill = required.reduce((a, b) => ((lab.turnaroundDays[b] as number) > (lab.turnaroundDays[a] as number) ? b : a));
+    let hardestSkill = required[0]!;
+    for (const s of required) if ((lab.turnaroundDays[s] as number) > (lab.turnaroundDays[hardestSkill] as number)) hardestSkill = s;
     const turnaroundDays = lab.turnaroundDays[hardestSkill] as number;
     const estimatedDays = round1(transitDays + queueRaw + turnaroundDays);
     const queueDays = round1(queueRaw);

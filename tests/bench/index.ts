@@ -1,0 +1,5 @@
+import { benchRouting } from './routing';
+
+// `npm run bench`: prints speed figures; nothing here is asserted in the test suite.
+console.log('Platterpost benchmarks\n');
+benchRouting();
