@@ -10,6 +10,7 @@ export const permissions = {
   'network.organizations.read': ['network_admin'],
   'referrals.create': ['partner_admin', 'partner_staff'],
   'referrals.read': ['partner_admin', 'partner_staff', 'network_admin'],
+  'referrals.cancel': ['partner_admin', 'partner_staff', 'network_admin'],
   'api-keys.manage': ['partner_admin'],
   'photos.upload': ['partner_admin', 'partner_staff'],
   // Every role may ask; the server shows a photo only to those who may see its case.

@@ -270,3 +270,7 @@ export const declineOfferInput = z
 export type DeclineOfferInput = z.infer<typeof declineOfferInput>;
 
 export const assignLabInput = z.object({ labId: z.string().uuid('Choose a lab'), note: optionalText(1000) });
+
+/** The answer to a routing preview: triage and the ranking as they would be now; nothing is stored. */
+export const routingPreviewDto = z.object({ triage: triageDto, routing: routingDto });
+export type RoutingPreviewDto = z.infer<typeof routingPreviewDto>;
