@@ -7,7 +7,7 @@ import {
   referralPhotoDto,
   idempotencyKeySchema,
 } from '@shared/schemas/partner-api';
-import { referralDto, referralInput, referralListDto, referralListQuery, routingDto, routingPreviewInput, triageDto } from '@shared/schemas/referrals';
+import { referralDto, referralInput, referralListDto, referralListQuery, routingPreviewDto, routingPreviewInput } from '@shared/schemas/referrals';
 import { caseStatuses } from '@shared/vocabulary';
 import type { Config } from '../config';
 import * as ex from './openapi-examples';
@@ -37,9 +37,7 @@ const RoutingPreviewInput = routingPreviewInput.meta({
   description: 'Everything routing reads. Nothing is stored.',
   example: ex.routingPreviewExample,
 });
-const RoutingPreview = z
-  .object({ triage: triageDto, routing: routingDto })
-  .meta({ id: 'RoutingPreview', description: 'Required skills, cautions, and the labs that would be offered the case, with reasons.', example: ex.routingPreviewResponseExample });
+const RoutingPreview = routingPreviewDto.meta({ id: 'RoutingPreview', description: 'Required skills, cautions, and the labs that would be offered the case, with reasons.', example: ex.routingPreviewResponseExample });
 const ApiError = apiErrorSchema.meta({
   id: 'Error',
   description: 'Every error has this shape. `fields` lists each field that needs attention, by its path in the body (e.g. `customer.email`, `symptoms.0`).',

@@ -1,8 +1,10 @@
+import { readFileSync } from 'node:fs';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { apiKeyPattern } from '@shared/schemas/partner-api';
 import { AuditEvent } from '../../server/audit';
 import { sha256 } from '../../server/auth/tokens';
+import { demoApiKeys, demoApiKeyValues } from '../../server/db/seed/demo-api-keys';
 import { ApiKey } from '../../server/partner-api';
 import { touchApiKey } from '../../server/partner-api/api-keys';
 import { setupApi, signIn } from '../support/api';
@@ -209,5 +211,34 @@ describe('API keys: revocation', () => {
     await db.query(`UPDATE organizations SET active = false WHERE id = $1`, [shop.org.id]);
     const res = await request(app).get('/api/v1/me').set('Authorization', `Bearer ${created.key}`);
     expect(res.status).toBe(401);
+  });
+});
+
+describe('demo API keys', () => {
+  it('seeds a key for Juniper Lane PC Clinic and one for Bramblewood Device Repair, each acting as its own shop', async () => {
+    for (const [slug, name] of [
+      ['juniper-lane', 'Juniper Lane PC Clinic'],
+      ['bramblewood', 'Bramblewood Device Repair'],
+    ] as const) {
+      const res = await request(app).get('/api/v1/me').set('Authorization', `Bearer ${demoApiKeyValues[slug]}`);
+      expect(res.status).toBe(200);
+      expect(res.body.organization.name).toBe(name);
+    }
+  });
+
+  it('stores the demo keys hashed like any other key', async () => {
+    const rows: { prefix: string; secret_hash: string }[] = await db.query(`SELECT prefix, secret_hash FROM api_keys WHERE prefix LIKE 'demo%'`);
+    for (const k of demoApiKeys) {
+      const row = rows.find((r) => r.prefix === k.prefix)!;
+      expect(row.secret_hash).toBe(sha256(k.secret));
+    }
+  });
+
+  it('lists each demo key in README.md on a line that says “API key”', () => {
+    const readme = readFileSync('README.md', 'utf8');
+    for (const key of Object.values(demoApiKeyValues)) {
+      const line = readme.split('\n').find((l) => l.includes(`\`${key}\``));
+      expect(line).toMatch(/API key/);
+    }
   });
 });

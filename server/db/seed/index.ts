@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { hashPassword, User } from '../../auth';
 import { Organization } from '../../organizations';
 import { DEMO_PASSWORD, demoAccounts } from './demo-accounts';
+import { seedDemoApiKeys } from './demo-api-keys';
 import { demoExtraStaff, demoOrganizations } from './demo-data';
 
 /**
@@ -45,6 +46,7 @@ export async function seedDemo(db: DataSource): Promise<{ seeded: boolean }> {
         manager.create(User, { email: p.email, name: p.name, role: p.role, organizationId: orgIds.get(p.organization)!, status: 'active', passwordHash }),
       );
     }
+    await seedDemoApiKeys(manager, orgIds);
     return { seeded: true };
   });
 }
