@@ -1,4 +1,4 @@
-import bwipjs from 'bwip-js';
+import bwipjs from 'bwip-js/node';
 import { describe, expect, it } from 'vitest';
 import { detectPhotoType } from './image-type';
 
