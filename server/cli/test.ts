@@ -4,6 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { buildClientIfStale } from './lib/build';
 import { ensureCluster, ensureDatabase } from './lib/postgres';
+import { ProcessGroup, waitForHttp } from './lib/stack';
 
 // `npm test [-- vitest args]`: a throwaway PostgreSQL cluster, migrated and seeded, the client
 // built for the browser tests, then Vitest; everything it started is gone when it ends.
@@ -17,10 +18,18 @@ const cluster = ensureCluster({
   settings: { fsync: 'off', synchronous_commit: 'off', full_page_writes: 'off', max_connections: '300' },
 });
 
+// One mail fake for every suite: the API tests' workers and the browser suite's server share the
+// database, so any of them may send a given outbox message; all must reach the same inbox.
+const mailSmtpPort = Number(process.env.TEST_MAIL_SMTP_PORT ?? port + 1);
+const mailHttpPort = Number(process.env.TEST_MAIL_HTTP_PORT ?? port + 2);
+const group = new ProcessGroup((name, exitCode) => console.error(`[test] ${name} exited early (code ${exitCode})`));
+
 let code = 1;
 try {
+  group.spawnTsx('mail fake', ['fakes/mail/main.ts'], { MAIL_FAKE_SMTP_PORT: String(mailSmtpPort), MAIL_FAKE_HTTP_PORT: String(mailHttpPort) });
+  await waitForHttp(`http://127.0.0.1:${mailHttpPort}/api/messages`);
   await ensureDatabase(cluster, 'platterpost_test');
-  const env = { ...process.env, DATABASE_URL: cluster.url('platterpost_test'), TEST_PG_ADMIN_URL: cluster.url('postgres'), NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' };
+  const env = { ...process.env, DATABASE_URL: cluster.url('platterpost_test'), TEST_PG_ADMIN_URL: cluster.url('postgres'), NODE_ENV: 'test', TEST_SMTP_PORT: String(mailSmtpPort), TEST_MAIL_API_URL: `http://127.0.0.1:${mailHttpPort}`, LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' };
   const tsx = path.join('node_modules', 'tsx', 'dist', 'cli.mjs');
   const migrate = spawnSync(process.execPath, [tsx, 'server/cli/migrate.ts', '--seed'], { stdio: 'inherit', env });
   if (migrate.status !== 0) throw new Error('migrations failed');
@@ -33,6 +42,7 @@ try {
 } catch (err) {
   console.error(`[test] ${(err as Error).message}`);
 } finally {
+  await group.stopAll();
   cluster.stop();
   rmSync(dataDir, { recursive: true, force: true });
 }
