@@ -28,11 +28,25 @@ let code = 1;
 try {
   group.spawnTsx('mail fake', ['fakes/mail/main.ts'], { MAIL_FAKE_SMTP_PORT: String(mailSmtpPort), MAIL_FAKE_HTTP_PORT: String(mailHttpPort) });
   await waitForHttp(`http://127.0.0.1:${mailHttpPort}/api/messages`);
+  // Two databases: the API suites' workers and the browser suite's server each work only on their
+  // own, so one suite's background jobs never pick up the other's records.
   await ensureDatabase(cluster, 'platterpost_test');
-  const env = { ...process.env, DATABASE_URL: cluster.url('platterpost_test'), TEST_PG_ADMIN_URL: cluster.url('postgres'), NODE_ENV: 'test', TEST_SMTP_PORT: String(mailSmtpPort), TEST_MAIL_API_URL: `http://127.0.0.1:${mailHttpPort}`, LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' };
+  await ensureDatabase(cluster, 'platterpost_e2e');
+  const env = {
+    ...process.env,
+    DATABASE_URL: cluster.url('platterpost_test'),
+    E2E_DATABASE_URL: cluster.url('platterpost_e2e'),
+    TEST_PG_ADMIN_URL: cluster.url('postgres'),
+    NODE_ENV: 'test',
+    TEST_SMTP_PORT: String(mailSmtpPort),
+    TEST_MAIL_API_URL: `http://127.0.0.1:${mailHttpPort}`,
+    LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+  };
   const tsx = path.join('node_modules', 'tsx', 'dist', 'cli.mjs');
-  const migrate = spawnSync(process.execPath, [tsx, 'server/cli/migrate.ts', '--seed'], { stdio: 'inherit', env });
-  if (migrate.status !== 0) throw new Error('migrations failed');
+  for (const url of [env.DATABASE_URL, env.E2E_DATABASE_URL]) {
+    const migrate = spawnSync(process.execPath, [tsx, 'server/cli/migrate.ts', '--seed'], { stdio: 'inherit', env: { ...env, DATABASE_URL: url } });
+    if (migrate.status !== 0) throw new Error('migrations failed');
+  }
   // The browser suite needs the built client; a run of other projects only does not.
   const args = process.argv.slice(2);
   const projects = args.flatMap((a, i) => (a === '--project' ? [args[i + 1]] : a.startsWith('--project=') ? [a.slice(10)] : []));

@@ -21,6 +21,7 @@ export default async function setup(project: TestProject) {
   const child = spawn(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'server/index.ts'], {
     env: {
       ...process.env,
+      DATABASE_URL: process.env.E2E_DATABASE_URL,
       PORT: String(port),
       APP_URL: appUrl,
       SMTP_PORT: process.env.TEST_SMTP_PORT ?? '2525',
