@@ -11,6 +11,8 @@ import type { Config } from './config';
 import { errorHandler, notFoundHandler } from './lib/errors';
 import { logger, requestContext } from './lib/logger';
 import { organizationRoutes } from './organizations';
+import { referralRoutes } from './referrals';
+import { routingRoutes } from './routing';
 import { apiKeyRoutes, partnerApiRoutes } from './partner-api';
 
 export interface AppDeps {
@@ -70,6 +72,8 @@ export function createApp({ config, db }: AppDeps): Express {
   });
   app.use('/api/auth', authRoutes(ctx, guard));
   app.use('/api', organizationRoutes(ctx, guard));
+  app.use('/api', referralRoutes(ctx, guard));
+  app.use('/api', routingRoutes(ctx, guard));
   app.use('/api', apiKeyRoutes(ctx, guard));
   app.use('/api/v1', partnerApiRoutes(ctx));
   app.use('/api', notFoundHandler);

@@ -3,6 +3,25 @@ import { AuditEvent } from '../audit/entities';
 import { OneTimeToken, RefreshToken, User } from '../auth/entities';
 import { OutboxMessage } from '../notifications/entities';
 import { Organization } from '../organizations/entities';
+import { JobOutboxRow } from '../jobs/entities';
+import { Referral, TimelineEntry } from '../referrals/entities';
+import { CleanAirCertificate, LabOffer, LabProfile, RoutingSnapshot } from '../routing/entities';
 import { ApiKey, IdempotencyRecord } from '../partner-api/entities';
 
-export const entities = [Organization, User, RefreshToken, OneTimeToken, OutboxMessage, AuditEvent, ApiKey, IdempotencyRecord];
+export const entities = [
+  Organization,
+  User,
+  RefreshToken,
+  OneTimeToken,
+  OutboxMessage,
+  AuditEvent,
+  ApiKey,
+  IdempotencyRecord,
+  LabProfile,
+  CleanAirCertificate,
+  Referral,
+  TimelineEntry,
+  RoutingSnapshot,
+  LabOffer,
+  JobOutboxRow,
+];

@@ -69,6 +69,58 @@ export const emailTemplates = {
       action: { label: 'Accept the invitation', url: d.url },
     }),
   }),
+  // Referrals and routing.
+  lab_offer_new: (d: { name: string; labName: string; reference: string; device: string; skills: string; shop: string; deadline: string; url: string }) => ({
+    subject: `New case offered to ${d.labName}: ${d.reference} (answer by ${d.deadline})`,
+    ...layout({
+      heading: `A case is offered to ${d.labName}`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `Case ${d.reference} from ${d.shop}: ${d.device}. It needs ${d.skills}.`,
+        `Please accept or decline by ${d.deadline}. If nobody answers by then, the case goes to the next lab.`,
+      ],
+      action: { label: 'Open the offer', url: d.url },
+    }),
+  }),
+  lab_case_auto_accepted: (d: { name: string; labName: string; reference: string; device: string; skills: string; shop: string; url: string }) => ({
+    subject: `Case ${d.reference} accepted for ${d.labName} by your auto-accept rule`,
+    ...layout({
+      heading: `${d.reference} was accepted automatically`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `Case ${d.reference} from ${d.shop} (${d.device}, needs ${d.skills}) matched one of ${d.labName}’s auto-accept rules, so the network accepted it for you.`,
+        'The shop will print a label and send the device to you.',
+      ],
+      action: { label: 'See your cases', url: d.url },
+    }),
+  }),
+  lab_offer_withdrawn: (d: { name: string; labName: string; reference: string; reason: string }) => ({
+    subject: `Case ${d.reference} is no longer offered to ${d.labName}`,
+    ...layout({
+      heading: `${d.reference} was withdrawn`,
+      paragraphs: [`Hello ${d.name},`, `Case ${d.reference} is no longer with ${d.labName}: ${d.reason}`, 'Nothing needs doing on your side.'],
+    }),
+  }),
+  referral_accepted: (d: { name: string; reference: string; customerName: string; labName: string; url: string }) => ({
+    subject: `${d.labName} accepted case ${d.reference}`,
+    ...layout({
+      heading: `A lab accepted ${d.reference}`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `${d.labName} accepted the case of ${d.customerName} (${d.reference}).`,
+        'Next: print the prepaid label and pack the device by the packing rules shown on the case.',
+      ],
+      action: { label: 'Open the case', url: d.url },
+    }),
+  }),
+  referral_needs_attention: (d: { name: string; reference: string; shop: string; reason: string; url: string }) => ({
+    subject: `Case ${d.reference} needs a lab`,
+    ...layout({
+      heading: `${d.reference} needs routing by hand`,
+      paragraphs: [`Hello ${d.name},`, `No lab has taken case ${d.reference} from ${d.shop}.`, d.reason],
+      action: { label: 'Open the attention queue', url: d.url },
+    }),
+  }),
 } satisfies Record<string, (data: never) => RenderedEmail>;
 
 export type EmailTemplate = keyof typeof emailTemplates;

@@ -1,5 +1,6 @@
 // Listed by hand, oldest first: migrations are reviewed code, not a folder glob.
 import { Foundation1764633600000 } from './1764633600000-foundation';
+import { ReferralsAndRouting1764979200000 } from './1764979200000-referrals-and-routing';
 import { PartnerApi1764892800000 } from './1764892800000-partner-api';
 
-export const migrations = [Foundation1764633600000, PartnerApi1764892800000];
+export const migrations = [Foundation1764633600000, PartnerApi1764892800000, ReferralsAndRouting1764979200000];

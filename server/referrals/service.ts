@@ -1,0 +1,455 @@
+import { createHash } from 'node:crypto';
+import { In, type EntityManager } from 'typeorm';
+import { assessBattery } from '@shared/domain/battery';
+import { makeReference, parseReference } from '@shared/domain/reference';
+import { triage } from '@shared/domain/triage';
+import {
+  assignLabInput,
+  referralInput,
+  referralListQuery,
+  routingPreviewInput,
+  type ReferralDto,
+  type ReferralInputParsed,
+  type RoutingPreviewDto,
+} from '@shared/schemas/referrals';
+import type { AttentionItemDto } from '@shared/schemas/labs';
+import { caseStatusLabels, type CaseStatus } from '@shared/vocabulary';
+import { recordAudit } from '../audit';
+import { AppError } from '../lib/errors';
+import type { Actor, ServiceContext } from '../lib/context';
+import { parseInput } from '../lib/validate';
+import { enqueueEmail } from '../notifications';
+import { Organization } from '../organizations';
+import {
+  LabOffer,
+  RoutingSnapshot,
+  assignInTransaction,
+  caseForRouting,
+  loadLabs,
+  lockReferral,
+  rankLabs,
+  recordTimeline,
+  resolvePostalCode,
+  routeAndOffer,
+  withdrawPendingOffer,
+  type TimelineActor,
+} from '../routing';
+import { toReferralDto, toSummaryDto, toTriageDto } from './dto';
+import { Referral, TimelineEntry, type StoredBattery, type StoredTriage } from './entities';
+
+// Intake and the case as shops and the network read it. Intake stores the case, triages it, ranks the
+// labs, records the ranking and offers the case to the best lab (or accepts it by the lab's rule, or
+// leaves it for the network admin), all in one transaction, each step on the timeline.
+
+/** Who opened the case: a person in the web app or a partner system with an API key. */
+export interface ReferralActor {
+  type: 'user' | 'api_key';
+  id: string;
+  name: string;
+}
+
+/** What a reader may see: one shop's cases, or the whole network's. */
+export type ReferralScope = { partnerOrganizationId: string } | { network: true };
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const triageActor: TimelineActor = { type: 'system', id: null, name: 'Platterpost triage' };
+
+/** Statuses from which a case can still be cancelled: nothing bought or shipped yet. */
+export const CANCELLABLE_STATUSES: readonly CaseStatus[] = ['opened', 'needs_attention', 'offered', 'accepted'];
+
+function scopeWhere(scope: ReferralScope): { partnerOrganizationId?: string } {
+  return 'network' in scope ? {} : { partnerOrganizationId: scope.partnerOrganizationId };
+}
+
+/** The scope an app user reads cases in; labs read cases only through their offers. */
+export function scopeOf(actor: Actor): ReferralScope {
+  if (actor.organizationKind === 'network') return { network: true };
+  if (actor.organizationKind === 'partner') return { partnerOrganizationId: actor.organizationId };
+  throw AppError.forbidden('Labs see cases through their offers');
+}
+
+export async function userActor(manager: EntityManager, actor: Actor): Promise<ReferralActor> {
+  const rows: { name: string }[] = await manager.query(`SELECT name FROM users WHERE id = $1`, [actor.userId]);
+  return { type: 'user', id: actor.userId, name: rows[0]?.name ?? 'Unknown user' };
+}
+
+function stableJson(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(stableJson).join(',')}]`;
+  if (value && typeof value === 'object') {
+    return `{${Object.keys(value)
+      .sort()
+      .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
+      .map((k) => `${JSON.stringify(k)}:${stableJson((value as Record<string, unknown>)[k])}`)
+      .join(',')}}`;
+  }
+  return JSON.stringify(value);
+}
+
+interface Origin {
+  line1: string | null;
+  city: string | null;
+  region: string | null;
+  postalCode: string;
+  country: string;
+  lat: number;
+  lon: number;
+}
+
+/** Where the device is: the address given, or the shop's own; coordinates from the postal code. */
+function resolveOrigin(given: ReferralInputParsed['origin'], shop: Organization): Origin {
+  if (given) {
+    const place = resolvePostalCode(given, 'origin');
+    return {
+      line1: given.line1 ?? null,
+      city: given.city ?? place.city,
+      region: given.region ?? place.region,
+      postalCode: place.postalCode,
+      country: place.country,
+      lat: place.lat,
+      lon: place.lon,
+    };
+  }
+  if (shop.postalCode && shop.lat != null && shop.lon != null) {
+    return { line1: shop.addressLine1, city: shop.city, region: shop.region, postalCode: shop.postalCode, country: shop.country, lat: shop.lat, lon: shop.lon };
+  }
+  if (shop.postalCode) {
+    const place = resolvePostalCode({ postalCode: shop.postalCode, country: shop.country }, 'origin');
+    return { line1: shop.addressLine1, city: shop.city ?? place.city, region: shop.region ?? place.region, postalCode: place.postalCode, country: place.country, lat: place.lat, lon: place.lon };
+  }
+  throw AppError.validation([{ path: 'origin', message: 'Your shop has no address on file; enter where the device is' }]);
+}
+
+/** Triage and the battery's own assessment; intake shows the cautions of both. */
+function runTriage(input: Pick<ReferralInputParsed, 'device' | 'symptoms' | 'sensitivity' | 'battery'>): StoredTriage {
+  let result;
+  let battery = null;
+  try {
+    result = triage({
+      mediaType: input.device.mediaType,
+      symptoms: input.symptoms,
+      sensitivity: input.sensitivity,
+      ...(input.device.memberCount !== undefined ? { raidMemberCount: input.device.memberCount } : {}),
+      ...(input.battery ? { battery: input.battery } : {}),
+    });
+    if (input.battery) battery = assessBattery(input.battery);
+  } catch (error) {
+    if (error instanceof RangeError || error instanceof TypeError) throw AppError.validation([{ path: '(body)', message: error.message }]);
+    throw error;
+  }
+  return { ...result, cautions: [...result.cautions, ...(battery?.cautions ?? [])], battery };
+}
+
+async function shopFor(manager: EntityManager, partnerOrganizationId: string): Promise<Organization> {
+  const shop = await manager.findOneBy(Organization, { id: partnerOrganizationId, kind: 'partner' });
+  if (!shop || !shop.active) throw AppError.notFound('That shop');
+  return shop;
+}
+
+export async function createReferral(
+  ctx: ServiceContext,
+  who: { partnerOrganizationId: string; actor: ReferralActor },
+  rawInput: unknown,
+  options: { idempotencyKey?: string } = {},
+): Promise<ReferralDto> {
+  const input = parseInput(referralInput, rawInput);
+  const referralId = await ctx.db.transaction((manager) => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date() }));
+  return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId);
+}
+
+/**
+ * Intake inside the caller's transaction: stores the case, triages, ranks, offers. Returns the case id
+ * (an earlier case's id when the idempotency key was used before with the same body).
+ */
+export async function openReferral(
+  ctx: ServiceContext,
+  manager: EntityManager,
+  who: { partnerOrganizationId: string; actor: ReferralActor },
+  input: ReferralInputParsed,
+  options: { idempotencyKey?: string; now: Date },
+): Promise<string> {
+  const key = options.idempotencyKey ?? null;
+  const hash = key ? createHash('sha256').update(stableJson(input)).digest('hex') : null;
+  const now = options.now;
+  if (key) {
+    // One case per key and shop, even when the same request arrives twice at once.
+    await manager.query(`SELECT pg_advisory_xact_lock(hashtext($1))`, [`referral:${who.partnerOrganizationId}:${key}`]);
+    const existing = await manager.findOneBy(Referral, { partnerOrganizationId: who.partnerOrganizationId, idempotencyKey: key });
+    if (existing) {
+      if (existing.idempotencyHash !== hash) {
+        throw AppError.conflict('That idempotency key was already used for a different referral', [{ path: 'Idempotency-Key', message: 'Used before with another body' }]);
+      }
+      return existing.id;
+    }
+  }
+  const shop = await shopFor(manager, who.partnerOrganizationId);
+  const origin = resolveOrigin(input.origin, shop);
+  const triaged = runTriage(input);
+  const [{ n }]: { n: string }[] = await manager.query(`SELECT nextval('referral_number_seq')::text AS n`);
+  const battery: StoredBattery | null = input.battery
+    ? {
+        installed: input.battery.installed,
+        condition: input.battery.condition ?? null,
+        wattHours: triaged.battery?.wattHours ?? input.battery.wattHours ?? null,
+        volts: input.battery.volts ?? null,
+        milliampHours: input.battery.milliampHours ?? null,
+      }
+    : null;
+
+  const referral = await manager.save(
+    manager.create(Referral, {
+      referenceNumber: n,
+      reference: makeReference(BigInt(n)),
+      partnerOrganizationId: shop.id,
+      externalRef: input.externalRef ?? null,
+      status: 'opened',
+      customerName: input.customer.name,
+      customerEmail: input.customer.email,
+      customerPhone: input.customer.phone || null,
+      mediaType: input.device.mediaType,
+      capacityGb: input.device.capacityGb ?? null,
+      deviceInterface: input.device.interface ?? null,
+      deviceMake: input.device.make || null,
+      deviceModel: input.device.model || null,
+      deviceSerial: input.device.serial || null,
+      memberCount: input.device.memberCount ?? null,
+      symptoms: input.symptoms,
+      description: input.description || null,
+      priorities: input.priorities.map((p) => ({ category: p.category, note: p.note || null })),
+      sensitivity: input.sensitivity,
+      battery,
+      originLine1: origin.line1,
+      originCity: origin.city,
+      originRegion: origin.region,
+      originPostalCode: origin.postalCode,
+      originCountry: origin.country,
+      originLat: origin.lat,
+      originLon: origin.lon,
+      consentRecordedAt: input.consent?.accepted ? now : null,
+      consentRecordedBy: input.consent?.accepted ? who.actor.name : null,
+      triage: triaged,
+      labOrganizationId: null,
+      attentionReason: null,
+      createdByType: who.actor.type,
+      createdById: who.actor.id,
+      createdByName: who.actor.name,
+      idempotencyKey: key,
+      idempotencyHash: hash,
+      cancelledAt: null,
+      createdAt: now,
+    }),
+  );
+
+  await recordTimeline(manager, referral.id, {
+    kind: 'opened',
+    summary: `Opened by ${who.actor.name}${who.actor.type === 'api_key' ? ' (partner API)' : ''} for ${referral.customerName}.`,
+    actor: who.actor,
+    at: now,
+    details: {
+      via: who.actor.type,
+      ...(referral.externalRef ? { externalRef: referral.externalRef } : {}),
+      consent: referral.consentRecordedAt ? { recordedAt: now.toISOString(), recordedBy: referral.consentRecordedBy } : null,
+    },
+  });
+  await recordTimeline(manager, referral.id, {
+    kind: 'triaged',
+    summary: `Needs ${triaged.requiredSkills.join(', ')}${triaged.needsCleanAir ? ' (clean air)' : ''}; ${triaged.cautions.length} ${triaged.cautions.length === 1 ? 'caution' : 'cautions'} for the shop.`,
+    actor: triageActor,
+    at: now,
+    details: {
+      requiredSkills: triaged.requiredSkills,
+      matchedRules: triaged.matchedRules.map((r) => r.ruleId),
+      unmatchedSymptoms: triaged.unmatchedSymptoms,
+      needsReview: triaged.needsReview,
+      batteryHazard: triaged.batteryHazard,
+    },
+  });
+  await routeAndOffer(ctx, manager, referral, { trigger: 'intake', now });
+  return referral.id;
+}
+
+async function loadParts(manager: EntityManager, referral: Referral) {
+  const [snapshot, offers, timeline] = await Promise.all([
+    manager.findOne(RoutingSnapshot, { where: { referralId: referral.id }, order: { createdAt: 'DESC' } }),
+    manager.find(LabOffer, { where: { referralId: referral.id }, order: { offeredAt: 'DESC', createdAt: 'DESC' } }),
+    manager.find(TimelineEntry, { where: { referralId: referral.id }, order: { at: 'ASC', position: 'ASC' } }),
+  ]);
+  const labIds = [...new Set(offers.map((o) => o.labOrganizationId))];
+  const labs = labIds.length ? await manager.find(Organization, { where: { id: In(labIds) } }) : [];
+  return { snapshot, offers, timeline, labNames: new Map(labs.map((l) => [l.id, l.name])) };
+}
+
+export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string): Promise<ReferralDto> {
+  if (!UUID.test(id)) throw AppError.notFound('That case');
+  const manager = ctx.db.manager;
+  // Scoped in the query itself: another shop's case is simply not found.
+  const referral = await manager.findOne(Referral, {
+    where: { id, ...scopeWhere(scope) },
+    relations: { partnerOrganization: true, labOrganization: true },
+  });
+  if (!referral) throw AppError.notFound('That case');
+  const parts = await loadParts(manager, referral);
+  return toReferralDto({
+    referral,
+    partnerName: referral.partnerOrganization?.name ?? '',
+    labName: referral.labOrganization?.name ?? null,
+    ...parts,
+  });
+}
+
+const CURSOR = /^(\d{1,20})\.([0-9a-f-]{36})$/;
+
+function encodeCursor(createdMicros: string, id: string): string {
+  return Buffer.from(`${createdMicros}.${id}`).toString('base64url');
+}
+
+function decodeCursor(cursor: string): { micros: string; id: string } {
+  const m = CURSOR.exec(Buffer.from(cursor, 'base64url').toString('utf8'));
+  if (!m || !UUID.test(m[2])) throw AppError.validation([{ path: 'cursor', message: 'Not a cursor from this list; start again without it' }]);
+  return { micros: m[1], id: m[2] };
+}
+
+/** Newest first, with a keyset cursor on (created_at, id) so pages never skip or repeat a case. */
+export async function listReferrals(ctx: ServiceContext, scope: ReferralScope, rawQuery: unknown) {
+  const query = parseInput(referralListQuery, rawQuery);
+  const qb = ctx.db.manager
+    .createQueryBuilder(Referral, 'r')
+    .leftJoinAndSelect('r.labOrganization', 'l')
+    .addSelect(`(extract(epoch FROM r.created_at) * 1000000)::bigint::text`, 'created_micros')
+    .orderBy('r.createdAt', 'DESC')
+    .addOrderBy('r.id', 'DESC')
+    .limit(query.limit + 1);
+  if ('partnerOrganizationId' in scope) qb.andWhere('r.partnerOrganizationId = :partner', { partner: scope.partnerOrganizationId });
+  if (query.status) qb.andWhere('r.status = :status', { status: query.status });
+  if (query.updatedSince) qb.andWhere('r.updatedAt >= :since', { since: new Date(query.updatedSince) });
+  if (query.q) {
+    const asReference = parseReference(query.q);
+    if (asReference.ok) {
+      qb.andWhere('r.reference = :reference', { reference: asReference.reference });
+    } else {
+      const like = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+      qb.andWhere('(r.reference ILIKE :like OR r.externalRef ILIKE :like OR r.customerName ILIKE :like OR r.customerEmail ILIKE :like)', { like });
+    }
+  }
+  if (query.cursor) {
+    const { micros, id } = decodeCursor(query.cursor);
+    qb.andWhere(`(r.created_at, r.id) < (TIMESTAMPTZ 'epoch' + (:micros)::bigint * INTERVAL '1 microsecond', (:cursorId)::uuid)`, { micros, cursorId: id });
+  }
+  const { entities, raw } = await qb.getRawAndEntities();
+  const page = entities.slice(0, query.limit);
+  const last = page.length === query.limit && entities.length > query.limit ? page.length - 1 : -1;
+  // Raw rows come back in the same order as the entities (one row per case: the join is to-one).
+  return {
+    data: page.map(toSummaryDto),
+    nextCursor: last >= 0 ? encodeCursor((raw[last] as { created_micros: string }).created_micros, page[last].id) : null,
+  };
+}
+
+export async function cancelReferral(ctx: ServiceContext, scope: ReferralScope, id: string, actor: ReferralActor): Promise<ReferralDto> {
+  if (!UUID.test(id)) throw AppError.notFound('That case');
+  await ctx.db.transaction(async (manager) => {
+    const visible = await manager.findOneBy(Referral, { id, ...scopeWhere(scope) });
+    if (!visible) throw AppError.notFound('That case');
+    await cancelInTransaction(manager, (await lockReferral(manager, id))!, actor, new Date());
+  });
+  return getReferral(ctx, scope, id);
+}
+
+/** Cancels a locked case that has not shipped: withdraws its offer and tells the lab. */
+export async function cancelInTransaction(manager: EntityManager, referral: Referral, actor: ReferralActor, now: Date): Promise<void> {
+  if (referral.status === 'cancelled') throw AppError.conflict('This case is already cancelled');
+  if (!CANCELLABLE_STATUSES.includes(referral.status)) {
+    throw AppError.conflict(
+      referral.status === 'label_issued'
+        ? 'A shipping label has been issued for this case; void the label before cancelling.'
+        : `The case can no longer be cancelled: it is ${caseStatusLabels[referral.status].toLowerCase()}.`,
+    );
+  }
+  await withdrawPendingOffer(manager, referral, { reason: 'the shop cancelled the case.', actor, now });
+  if (referral.status === 'accepted' && referral.labOrganizationId) {
+    const lab = await manager.findOneBy(Organization, { id: referral.labOrganizationId });
+    const managers: { email: string; name: string }[] = await manager.query(
+      `SELECT email, name FROM users WHERE organization_id = $1 AND role = 'lab_manager' AND status = 'active'`,
+      [referral.labOrganizationId],
+    );
+    for (const person of managers) {
+      await enqueueEmail(manager, person.email, 'lab_offer_withdrawn', {
+        name: person.name,
+        labName: lab?.name ?? 'your lab',
+        reference: referral.reference,
+        reason: 'the shop cancelled the case before sending the device.',
+      });
+    }
+  }
+  await manager.update(Referral, referral.id, { status: 'cancelled', cancelledAt: now, attentionReason: null });
+  await recordTimeline(manager, referral.id, { kind: 'cancelled', summary: `Cancelled by ${actor.name}.`, actor, at: now, details: { previousStatus: referral.status } });
+  referral.status = 'cancelled';
+}
+
+export async function previewRouting(ctx: ServiceContext, partnerOrganizationId: string, rawInput: unknown): Promise<RoutingPreviewDto> {
+  const input = parseInput(routingPreviewInput, rawInput);
+  const manager = ctx.db.manager;
+  const shop = await shopFor(manager, partnerOrganizationId);
+  const origin = resolveOrigin(input.origin, shop);
+  const triaged = runTriage({ ...input, device: input.device });
+  const ranking = await rankLabs(manager, { mediaType: input.device.mediaType, origin, triage: triaged }, { asOf: new Date() });
+  return {
+    triage: toTriageDto(triaged),
+    routing: { origin: { lat: origin.lat, lon: origin.lon }, candidates: ranking.candidates, excluded: ranking.excluded, offeredTo: null },
+  };
+}
+
+/** The network's queue: every case no lab has taken, oldest first, with its ranking as it stands now. */
+export async function listAttention(ctx: ServiceContext): Promise<{ data: AttentionItemDto[] }> {
+  const manager = ctx.db.manager;
+  const waiting = await manager.find(Referral, { where: { status: 'needs_attention' }, relations: { labOrganization: true }, order: { updatedAt: 'ASC' } });
+  const now = new Date();
+  const data: AttentionItemDto[] = [];
+  for (const referral of waiting) {
+    const offers = await manager.find(LabOffer, { where: { referralId: referral.id }, order: { offeredAt: 'ASC' } });
+    const labs = offers.length ? await manager.find(Organization, { where: { id: In([...new Set(offers.map((o) => o.labOrganizationId))]) } }) : [];
+    const names = new Map(labs.map((l) => [l.id, l.name]));
+    const ranking = await rankLabs(manager, caseForRouting(referral), { asOf: now, previouslyOfferedLabIds: offers.map((o) => o.labOrganizationId) });
+    const since = await manager.findOne(TimelineEntry, { where: { referralId: referral.id, kind: 'needs_attention' }, order: { at: 'DESC', position: 'DESC' } });
+    data.push({
+      referral: toSummaryDto(referral),
+      attentionReason: referral.attentionReason,
+      since: (since?.at ?? referral.updatedAt).toISOString(),
+      requiredSkills: referral.triage.requiredSkills,
+      previousOffers: offers.map((o) => ({ labId: o.labOrganizationId, labName: names.get(o.labOrganizationId) ?? '', status: o.status, declineReason: o.declineReason })),
+      ranking: { candidates: ranking.candidates, excluded: ranking.excluded },
+    });
+  }
+  return { data };
+}
+
+/** Manual routing by the network admin: offers the case to the chosen lab. Audited. */
+export async function assignLab(ctx: ServiceContext, actor: Actor, id: string, rawInput: unknown): Promise<ReferralDto> {
+  const input = parseInput(assignLabInput, rawInput);
+  if (!UUID.test(id)) throw AppError.notFound('That case');
+  const now = new Date();
+  await ctx.db.transaction(async (manager) => {
+    const referral = await lockReferral(manager, id);
+    if (!referral) throw AppError.notFound('That case');
+    if (referral.status !== 'needs_attention' && referral.status !== 'offered') {
+      throw AppError.conflict(`Only a case waiting for a lab can be routed by hand; this one is ${caseStatusLabels[referral.status].toLowerCase()}.`);
+    }
+    const [lab] = await loadLabs(manager, { labId: input.labId });
+    if (!lab) throw AppError.validation([{ path: 'labId', message: 'No lab with that id' }]);
+    if (!lab.active || !lab.configured || !lab.location) {
+      throw AppError.validation([{ path: 'labId', message: !lab.active ? 'That lab is not active on the network' : 'That lab has not completed its profile' }]);
+    }
+    const admin = await userActor(manager, actor);
+    const previousStatus = referral.status;
+    await withdrawPendingOffer(manager, referral, { reason: 'the network routed the case by hand.', actor: admin, now });
+    const outcome = await assignInTransaction(ctx, manager, referral, lab, { actor: admin, note: input.note ?? null, now });
+    await recordAudit(manager, {
+      action: 'referral.assigned',
+      actorUserId: actor.userId,
+      organizationId: lab.id,
+      targetType: 'referral',
+      targetId: referral.id,
+      details: { reference: referral.reference, labId: lab.id, labName: lab.name, note: input.note ?? null, previousStatus, outcome: outcome.outcome },
+    });
+  });
+  return getReferral(ctx, { network: true }, id);
+}

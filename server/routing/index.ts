@@ -1,0 +1,30 @@
+export { LabProfile, CleanAirCertificate, RoutingSnapshot, LabOffer, type OfferStatus, type RoutingTrigger } from './entities';
+export { routingRoutes } from './routes';
+export { registerRoutingJobs } from './jobs';
+export { loadLabs, LAB_OPEN_STATUSES, type LoadedLab } from './labs';
+export { rankLabs, noCandidateReason, type CaseForRouting, type Ranking } from './ranking';
+export { lookupPostalCode, resolvePostalCode, type Place } from './places';
+export { recordTimeline, routingActor, type TimelineActor, type TimelineInput } from './timeline';
+export {
+  routeAndOffer,
+  makeOffer,
+  withdrawPendingOffer,
+  assignInTransaction,
+  expireOffer,
+  expireOverdueOffers,
+  lockReferral,
+  caseForRouting,
+  matchingAutoAcceptRule,
+  type DispatchOutcome,
+  type ExpiryResult,
+} from './dispatch';
+export { listLabOffers, getLabOffer, acceptOffer, declineOffer } from './offers';
+export {
+  getOwnLabProfile,
+  updateOwnLabProfile,
+  addOwnCertificate,
+  getLabProfile,
+  updateLabProfile,
+  addLabCertificate,
+  listLabs,
+} from './profiles';

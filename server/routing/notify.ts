@@ -1,0 +1,43 @@
+import { DateTime } from 'luxon';
+import type { EntityManager } from 'typeorm';
+import { labSkillLabels, mediaTypeLabels, type LabSkill } from '@shared/vocabulary';
+import type { Referral } from '../referrals/entities';
+
+// Who hears about offers and acceptances, and how a case reads in a subject line.
+
+export interface Recipient {
+  email: string;
+  name: string;
+}
+
+export async function labManagers(manager: EntityManager, labId: string): Promise<Recipient[]> {
+  return manager.query(`SELECT email, name FROM users WHERE organization_id = $1 AND role = 'lab_manager' AND status = 'active' ORDER BY email`, [labId]);
+}
+
+export async function shopUsers(manager: EntityManager, partnerId: string): Promise<Recipient[]> {
+  return manager.query(
+    `SELECT email, name FROM users WHERE organization_id = $1 AND role IN ('partner_admin', 'partner_staff') AND status = 'active' ORDER BY email`,
+    [partnerId],
+  );
+}
+
+export async function networkAdmins(manager: EntityManager): Promise<Recipient[]> {
+  return manager.query(`SELECT u.email, u.name FROM users u JOIN organizations o ON o.id = u.organization_id
+                        WHERE u.role = 'network_admin' AND u.status = 'active' AND o.active ORDER BY u.email`);
+}
+
+/** "Tue 3 Dec, 11:00 MST" in the lab's own time zone. */
+export function formatLocal(at: Date, timeZone: string): string {
+  return DateTime.fromJSDate(at).setZone(timeZone).toFormat('ccc d LLL, HH:mm ZZZZ');
+}
+
+export function deviceLabel(r: Pick<Referral, 'mediaType' | 'deviceMake' | 'deviceModel' | 'capacityGb'>): string {
+  const name = [r.deviceMake, r.deviceModel].filter(Boolean).join(' ');
+  const size = r.capacityGb ? (r.capacityGb >= 1000 ? `${Number((r.capacityGb / 1000).toFixed(1))} TB` : `${r.capacityGb} GB`) : null;
+  const extra = [name, size].filter(Boolean).join(', ');
+  return `${mediaTypeLabels[r.mediaType]}${extra ? ` (${extra})` : ''}`;
+}
+
+export function skillList(skills: readonly LabSkill[]): string {
+  return skills.map((s) => labSkillLabels[s]).join(', ');
+}
