@@ -186,6 +186,19 @@ export const timelineEntryDto = z.object({
 });
 export type TimelineEntryDto = z.infer<typeof timelineEntryDto>;
 
+/** What the customer was quoted and has paid; null until the lab has sent a quote. Integer minor units. */
+export const caseAmountsDto = z.object({
+  currency: z.string(),
+  quoteStatus: z.enum(['sent', 'approved', 'declined']),
+  /** The whole quote: what the customer pays; the network adds nothing on top. */
+  quotedTotalMinor: z.number().int(),
+  /** The lab's service lines (and any expedite line), without target media and return shipping. */
+  serviceLinesMinor: z.number().int(),
+  paidMinor: z.number().int().nullable(),
+  paidAt: z.string().nullable(),
+});
+export type CaseAmountsDto = z.infer<typeof caseAmountsDto>;
+
 export const referralDto = z.object({
   id: z.string().uuid(),
   reference: z.string(),
@@ -224,7 +237,7 @@ export const referralDto = z.object({
   photos: z.array(z.object({ id: z.string().uuid(), url: z.string(), contentType: z.string(), sizeBytes: z.number() })),
   timeline: z.array(timelineEntryDto),
   shipments: z.array(z.object({ id: z.string(), trackingCode: z.string().nullable(), status: z.string() })),
-  amounts: z.null(),
+  amounts: caseAmountsDto.nullable(),
 });
 export type ReferralDto = z.infer<typeof referralDto>;
 
