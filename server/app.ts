@@ -14,6 +14,7 @@ import { organizationRoutes } from './organizations';
 import { referralRoutes } from './referrals';
 import { routingRoutes } from './routing';
 import { apiKeyRoutes, partnerApiRoutes } from './partner-api';
+import { photoRoutes } from './uploads';
 
 export interface AppDeps {
   config: Config;
@@ -76,6 +77,7 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use('/api', routingRoutes(ctx, guard));
   app.use('/api', apiKeyRoutes(ctx, guard));
   app.use('/api/v1', partnerApiRoutes(ctx));
+  app.use('/api', photoRoutes(ctx, guard));
   app.use('/api', notFoundHandler);
 
   // The built client, with the router's paths falling back to index.html.

@@ -7,6 +7,7 @@ import { JobOutboxRow } from '../jobs/entities';
 import { Referral, TimelineEntry } from '../referrals/entities';
 import { CleanAirCertificate, LabOffer, LabProfile, RoutingSnapshot } from '../routing/entities';
 import { ApiKey, IdempotencyRecord } from '../partner-api/entities';
+import { ReferralPhoto } from '../uploads/entities';
 
 export const entities = [
   Organization,
@@ -24,4 +25,5 @@ export const entities = [
   RoutingSnapshot,
   LabOffer,
   JobOutboxRow,
+  ReferralPhoto,
 ];

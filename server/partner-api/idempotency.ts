@@ -1,6 +1,5 @@
 import { createHash, randomUUID } from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
-import type { EntityManager } from 'typeorm';
 import { idempotencyKeySchema } from '@shared/schemas/partner-api';
 import { AppError } from '../lib/errors';
 import { logger } from '../lib/logger';
@@ -38,13 +37,9 @@ export function requestFingerprint(req: Request): string {
     .digest('hex');
 }
 
+/** What the route may pass on to its service (the referrals service keeps one case per key). */
 export interface IdempotencyHandle {
   key: string;
-  /**
-   * Stores the answer with the caller's transaction, so that the work and its answer commit
-   * together. Optional: without it the answer is stored just before it is sent.
-   */
-  store(manager: EntityManager, status: number, body: unknown): Promise<void>;
 }
 
 declare module 'express-serve-static-core' {
@@ -77,6 +72,11 @@ async function sweepExpired(ctx: ServiceContext) {
  * same key with another body answers 409, and so does a retry while the first is still running.
  * Only successful answers are kept: after a 4xx or 5xx the key is free again, so a corrected
  * request may reuse it.
+ *
+ * The answer is stored just before it is sent, not in the work's own transaction. What makes that
+ * safe: the referrals service writes the key on the case in its transaction and answers a retry
+ * with that case, and an unfinished record only holds its lease for IDEMPOTENCY_LEASE_SECONDS.
+ * A crash between the work and the record therefore neither blocks the key nor opens a second case.
  */
 export function idempotency(ctx: ServiceContext): RequestHandler {
   return async (req, res, next) => {
@@ -93,14 +93,7 @@ export function idempotency(ctx: ServiceContext): RequestHandler {
     if (!claim) return; // answered from the record, or refused
 
     let settled = false;
-    let storedInTransaction = false;
-    res.locals.idempotency = {
-      key,
-      async store(manager, status, body) {
-        await complete(manager, claim, status, body);
-        storedInTransaction = true;
-      },
-    };
+    res.locals.idempotency = { key };
     const release = () =>
       ctx.db.query(`DELETE FROM idempotency_records WHERE id = $1 AND lease_token = $2 AND state = 'in_progress'`, [claim.id, claim.token]);
 
@@ -108,7 +101,7 @@ export function idempotency(ctx: ServiceContext): RequestHandler {
     res.json = ((body: unknown) => {
       settled = true;
       const status = res.statusCode;
-      const work = status < 400 ? (storedInTransaction ? Promise.resolve() : complete(ctx.db.manager, claim, status, body)) : release();
+      const work = status < 400 ? complete(ctx, claim, status, body) : release();
       work
         .catch((err) => logger.error({ err, idempotencyKey: key }, 'could not store the idempotent answer'))
         .finally(() => send(body));
@@ -122,8 +115,8 @@ export function idempotency(ctx: ServiceContext): RequestHandler {
   };
 }
 
-async function complete(manager: EntityManager, claim: Claim, status: number, body: unknown) {
-  await manager.query(
+async function complete(ctx: ServiceContext, claim: Claim, status: number, body: unknown) {
+  await ctx.db.query(
     `UPDATE idempotency_records SET state = 'completed', response_status = $3, response_body = $4::jsonb
      WHERE id = $1 AND lease_token = $2`,
     [claim.id, claim.token, status, JSON.stringify(body ?? null)],

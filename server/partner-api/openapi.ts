@@ -198,6 +198,28 @@ export const partnerApiPaths: RouteConfig[] = [
     },
   },
   {
+    method: 'get',
+    path: '/api/v1/photos/{id}',
+    tags: ['Referrals'],
+    summary: 'Download a condition photo',
+    description: 'The image bytes, with the type recognised at upload. Only photos of the partner’s own cases.',
+    security: SECURITY,
+    request: { params: z.object({ id: z.string().uuid().meta({ description: 'The photo’s id (from the referral’s `photos`)' }) }) },
+    responses: {
+      200: {
+        description: 'The image',
+        content: Object.fromEntries(
+          ['image/jpeg', 'image/png', 'image/webp', 'image/heic', 'image/heif'].map((t) => [t, { schema: z.string().meta({ format: 'binary' }) }]),
+        ),
+      },
+      304: { description: 'Not modified (the ETag matched)' },
+      400: errors[400],
+      401: errors[401],
+      404: { description: 'No such photo among the partner’s cases.', content: json(ApiError, ex.errorExamples.notFound) },
+      429: errors[429],
+    },
+  },
+  {
     method: 'post',
     path: '/api/v1/routing/preview',
     tags: ['Routing'],

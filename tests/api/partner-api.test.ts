@@ -5,7 +5,8 @@ import { errorHandler } from '../../server/lib/errors';
 import { IdempotencyRecord } from '../../server/partner-api';
 import { idempotency } from '../../server/partner-api/idempotency';
 import { requireApiKey } from '../../server/partner-api/middleware';
-import { setupApi, signIn } from '../support/api';
+import { referralDto, referralListDto, routingPreviewDto } from '@shared/schemas/referrals';
+import { setupApi, signIn, unique } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
 const api = await setupApi();
@@ -211,5 +212,257 @@ describe('idempotency (Idempotency-Key on POST)', () => {
     expect(res.status).toBe(400);
     expect(res.body.error.fields[0].path).toBe('Idempotency-Key');
     expect(h.runs()).toBe(0);
+  });
+});
+
+// A referral as a shop's ticketing system sends it. Invented customer and device.
+const referralBody = (extra: Record<string, unknown> = {}) => ({
+  externalRef: unique('JL-'),
+  customer: { name: 'Dana Whitcombe', email: 'dana.whitcombe@example.com' },
+  device: { mediaType: 'hdd_2_5', capacityGb: 1000 },
+  symptoms: ['clicking'],
+  priorities: [{ category: 'photos', note: 'family photos' }],
+  origin: { postalCode: '80202' },
+  ...extra,
+});
+
+const countCases = async (orgId: string) => Number((await db.query(`SELECT count(*) FROM referrals WHERE partner_organization_id = $1`, [orgId]))[0].count);
+
+describe('POST /api/v1/referrals', () => {
+  it('opens a case for the key’s shop, answers the shared referral shape, and records consent by the key', async () => {
+    const shop = await shopWithKey();
+    const body = referralBody();
+
+    const res = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(body);
+
+    expect(res.status).toBe(201);
+    expect(() => referralDto.parse(res.body)).not.toThrow();
+    expect(res.body.partner).toEqual({ id: shop.org.id, name: shop.org.name });
+    expect(res.body.externalRef).toBe(body.externalRef);
+    expect(res.body.consent).toEqual({ recordedAt: expect.any(String), recordedBy: expect.stringContaining('API key') });
+    const opened = res.body.timeline.find((e: { kind: string }) => e.kind === 'opened');
+    expect(opened.actor.type).toBe('api_key');
+    const [row] = await db.query(`SELECT created_by_type, created_by_id FROM referrals WHERE id = $1`, [res.body.id]);
+    expect(row).toEqual({ created_by_type: 'api_key', created_by_id: shop.keyId });
+  });
+
+  it('replays the first answer for the same Idempotency-Key and body, and opens one case', async () => {
+    const shop = await shopWithKey();
+    const body = referralBody();
+    const send = () => request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'ticket-1').send(body);
+
+    const first = await send();
+    const second = await send();
+
+    expect(first.status).toBe(201);
+    expect(second.status).toBe(201);
+    expect(second.headers['idempotent-replayed']).toBe('true');
+    expect(second.body).toEqual(first.body);
+    expect(await countCases(shop.org.id)).toBe(1);
+  });
+
+  it('opens one case when the same request arrives several times at once', async () => {
+    const shop = await shopWithKey();
+    const body = referralBody();
+    const answers = await Promise.all(
+      Array.from({ length: 4 }, () => request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'burst').send(body)),
+    );
+
+    // Each answer is the case (first or replayed) or "still in progress"; never a second case.
+    const created = answers.filter((r) => r.status === 201);
+    expect(created.length).toBeGreaterThanOrEqual(1);
+    expect(new Set(created.map((r) => r.body.id)).size).toBe(1);
+    for (const r of answers.filter((x) => x.status !== 201)) {
+      expect(r.status).toBe(409);
+      expect(r.body.error.code).toBe('idempotency_in_progress');
+    }
+    expect(await countCases(shop.org.id)).toBe(1);
+  });
+
+  it('answers 409 for the same Idempotency-Key with another body and opens no second case', async () => {
+    const shop = await shopWithKey();
+    await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'ticket-2').send(referralBody());
+
+    const res = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'ticket-2').send(referralBody());
+
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('idempotency_key_reused');
+    expect(await countCases(shop.org.id)).toBe(1);
+  });
+
+  it('opens one case when a retry arrives after the first attempt’s record was lost (the case itself holds the key)', async () => {
+    const shop = await shopWithKey();
+    const body = referralBody();
+    const first = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'ticket-3').send(body);
+    // As if the process had died after the case committed and before its answer was stored.
+    await db.query(`DELETE FROM idempotency_records WHERE api_key_id = $1`, [shop.keyId]);
+
+    const retry = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'ticket-3').send(body);
+
+    expect(retry.status).toBe(201);
+    expect(retry.body.id).toBe(first.body.id);
+    expect(await countCases(shop.org.id)).toBe(1);
+  });
+
+  it('answers 400 naming each field for wrong types, unknown codes and a negative capacity, and writes nothing', async () => {
+    const shop = await shopWithKey();
+    const res = await request(app)
+      .post('/api/v1/referrals')
+      .set('Authorization', `Bearer ${shop.key}`)
+      .set('Idempotency-Key', 'bad-body')
+      .send(referralBody({ customer: { name: 42, email: 'not-an-email' }, device: { mediaType: 'floppy', capacityGb: -5 }, symptoms: ['haunted'] }));
+
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('validation_failed');
+    const paths = res.body.error.fields.map((f: { path: string }) => f.path);
+    expect(paths).toEqual(expect.arrayContaining(['customer.name', 'customer.email', 'device.mediaType', 'device.capacityGb', 'symptoms.0']));
+    expect(await countCases(shop.org.id)).toBe(0);
+    // A refused request keeps no idempotency record, so the corrected one may reuse the key.
+    const fixed = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'bad-body').send(referralBody());
+    expect(fixed.status).toBe(201);
+  });
+
+  it('answers 400 malformed_json for a body that is not JSON and writes nothing', async () => {
+    const shop = await shopWithKey();
+    const res = await request(app)
+      .post('/api/v1/referrals')
+      .set('Authorization', `Bearer ${shop.key}`)
+      .set('Content-Type', 'application/json')
+      .send('{"customer": {"name": "Dana"');
+    expect(res.status).toBe(400);
+    expect(res.body.error).toEqual({ code: 'malformed_json', message: expect.any(String), fields: [{ path: '(body)', message: expect.any(String) }] });
+    expect(await countCases(shop.org.id)).toBe(0);
+  });
+
+  it('answers 401 for a revoked key and opens nothing', async () => {
+    const shop = await shopWithKey();
+    await request(app).delete(`/api/partner/api-keys/${shop.keyId}`).set('Authorization', `Bearer ${shop.token}`);
+    const res = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody());
+    expect(res.status).toBe(401);
+    expect(res.body.error.code).toBe('unauthenticated');
+    expect(await countCases(shop.org.id)).toBe(0);
+  });
+});
+
+describe('GET and DELETE /api/v1/referrals/:id', () => {
+  it('answers the shop’s own case', async () => {
+    const shop = await shopWithKey();
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody());
+    const res = await request(app).get(`/api/v1/referrals/${created.body.id}`).set('Authorization', `Bearer ${shop.key}`);
+    expect(res.status).toBe(200);
+    expect(res.body.id).toBe(created.body.id);
+    expect(res.body.reference).toBe(created.body.reference);
+  });
+
+  it('answers 404 for another partner’s case, for reading and for cancelling, and leaves it as it was', async () => {
+    const owner = await shopWithKey();
+    const other = await shopWithKey();
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${owner.key}`).send(referralBody());
+
+    const read = await request(app).get(`/api/v1/referrals/${created.body.id}`).set('Authorization', `Bearer ${other.key}`);
+    const cancel = await request(app).delete(`/api/v1/referrals/${created.body.id}`).set('Authorization', `Bearer ${other.key}`);
+
+    expect(read.status).toBe(404);
+    expect(read.body.error.code).toBe('not_found');
+    expect(JSON.stringify(read.body)).not.toContain(created.body.customer.email);
+    expect(cancel.status).toBe(404);
+    const [row] = await db.query(`SELECT status FROM referrals WHERE id = $1`, [created.body.id]);
+    expect(row.status).toBe(created.body.status);
+  });
+
+  it('answers 400 for an id that is not a UUID', async () => {
+    const shop = await shopWithKey();
+    const res = await request(app).get('/api/v1/referrals/PP-123').set('Authorization', `Bearer ${shop.key}`);
+    expect(res.status).toBe(400);
+    expect(res.body.error.fields[0].path).toBe('id');
+  });
+
+  it('cancels a case that has not shipped, on the timeline as the key; a second cancel answers 409', async () => {
+    const shop = await shopWithKey();
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody());
+
+    const res = await request(app).delete(`/api/v1/referrals/${created.body.id}`).set('Authorization', `Bearer ${shop.key}`);
+    const again = await request(app).delete(`/api/v1/referrals/${created.body.id}`).set('Authorization', `Bearer ${shop.key}`);
+
+    expect(res.status).toBe(200);
+    expect(res.body.status).toBe('cancelled');
+    const entry = res.body.timeline.find((e: { kind: string }) => e.kind === 'cancelled');
+    expect(entry.actor.type).toBe('api_key');
+    expect(again.status).toBe(409);
+  });
+
+  it('refuses to cancel a case whose box is already in transit, with 409, and leaves it as it was', async () => {
+    const shop = await shopWithKey();
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody());
+    await db.query(`UPDATE referrals SET status = 'in_transit' WHERE id = $1`, [created.body.id]);
+    const res = await request(app).delete(`/api/v1/referrals/${created.body.id}`).set('Authorization', `Bearer ${shop.key}`);
+    expect(res.status).toBe(409);
+    const [row] = await db.query(`SELECT status FROM referrals WHERE id = $1`, [created.body.id]);
+    expect(row.status).toBe('in_transit');
+  });
+});
+
+describe('GET /api/v1/referrals', () => {
+  it('lists only the shop’s cases, newest first, a page at a time with a cursor', async () => {
+    const shop = await shopWithKey();
+    const other = await shopWithKey();
+    await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${other.key}`).send(referralBody());
+    const ids: string[] = [];
+    for (let i = 0; i < 3; i++) ids.push((await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody())).body.id);
+
+    const first = await request(app).get('/api/v1/referrals?limit=2').set('Authorization', `Bearer ${shop.key}`);
+    const second = await request(app).get(`/api/v1/referrals?limit=2&cursor=${encodeURIComponent(first.body.nextCursor)}`).set('Authorization', `Bearer ${shop.key}`);
+
+    expect(first.status).toBe(200);
+    expect(() => referralListDto.parse(first.body)).not.toThrow();
+    expect(first.body.data.map((r: { id: string }) => r.id)).toEqual([ids[2], ids[1]]);
+    expect(first.body.nextCursor).toEqual(expect.any(String));
+    expect(second.body.data.map((r: { id: string }) => r.id)).toEqual([ids[0]]);
+    expect(second.body.nextCursor).toBeNull();
+  });
+
+  it('filters by status and by updatedSince', async () => {
+    const shop = await shopWithKey();
+    const a = (await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody())).body;
+    const b = (await request(app).post('/api/v1/referrals').set('Authorization', `Bearer ${shop.key}`).send(referralBody())).body;
+    await request(app).delete(`/api/v1/referrals/${a.id}`).set('Authorization', `Bearer ${shop.key}`);
+
+    const cancelled = await request(app).get('/api/v1/referrals?status=cancelled').set('Authorization', `Bearer ${shop.key}`);
+    const future = await request(app).get('/api/v1/referrals?updatedSince=2999-01-01T00:00:00Z').set('Authorization', `Bearer ${shop.key}`);
+    const past = await request(app).get('/api/v1/referrals?updatedSince=2000-01-01T00:00:00Z').set('Authorization', `Bearer ${shop.key}`);
+
+    expect(cancelled.body.data.map((r: { id: string }) => r.id)).toEqual([a.id]);
+    expect(future.body.data).toEqual([]);
+    expect(past.body.data.map((r: { id: string }) => r.id).sort()).toEqual([a.id, b.id].sort());
+  });
+
+  it('answers 400 naming the parameter for a bad status, limit or date', async () => {
+    const shop = await shopWithKey();
+    const res = await request(app).get('/api/v1/referrals?status=lost&limit=0&updatedSince=yesterday').set('Authorization', `Bearer ${shop.key}`);
+    expect(res.status).toBe(400);
+    expect(res.body.error.fields.map((f: { path: string }) => f.path).sort()).toEqual(['limit', 'status', 'updatedSince']);
+  });
+});
+
+describe('POST /api/v1/routing/preview', () => {
+  it('answers triage and routing and creates nothing', async () => {
+    const shop = await shopWithKey();
+    const res = await request(app)
+      .post('/api/v1/routing/preview')
+      .set('Authorization', `Bearer ${shop.key}`)
+      .send({ device: { mediaType: 'hdd_3_5' }, symptoms: ['clicking'], origin: { postalCode: '80202' } });
+
+    expect(res.status).toBe(200);
+    expect(() => routingPreviewDto.parse(res.body)).not.toThrow();
+    // Triage rule (common trade practice, no published source): a clicking HDD needs head work.
+    expect(res.body.triage.requiredSkills.some((s: string) => s === 'hdd_head_swap' || s === 'hdd_platter_work')).toBe(true);
+    expect(await countCases(shop.org.id)).toBe(0);
+  });
+
+  it('answers 400 with fields for an unknown media type', async () => {
+    const shop = await shopWithKey();
+    const res = await request(app).post('/api/v1/routing/preview').set('Authorization', `Bearer ${shop.key}`).send({ device: { mediaType: 'zip_disk' } });
+    expect(res.status).toBe(400);
+    expect(res.body.error.fields[0].path).toBe('device.mediaType');
   });
 });
