@@ -21,6 +21,10 @@ export const permissions = {
   'lab-profile.manage': ['lab_manager', 'network_admin'],
   'inbound.read': ['shipping_clerk', 'lab_manager'],
   'inbound.check-in': ['shipping_clerk'],
+  // Prepaid labels: the shop's staff buy them for the boxes they pack.
+  'labels.buy': ['partner_admin', 'partner_staff'],
+  // The lab's outgoing boxes: returns to the shop or customer and lab-to-lab transfers.
+  'outbound.ship': ['shipping_clerk', 'lab_manager'],
   'bench.work': ['lab_technician', 'lab_manager'],
   'quotes.send': ['lab_manager'],
   'network.manage': ['network_admin'],
