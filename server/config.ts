@@ -33,10 +33,24 @@ const configSchema = z
     OFFER_RESPONSE_BUSINESS_HOURS: z.coerce.number().positive().max(80).default(4),
     /** Requests per minute per partner API key; load tests raise it. */
     PARTNER_API_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(600),
+    /** The shipping API (our local fake in development and tests); the official SDK's baseUrl. */
+    SHIPPING_API_URL: z.string().url().default('http://127.0.0.1:4010/v2/'),
+    SHIPPING_API_KEY: z.string().min(1).optional(),
+    /** Verifies the tracking webhooks the shipping service signs. */
+    SHIPPING_WEBHOOK_SECRET: z.string().min(1).optional(),
+    /** Where the shipping service should post tracking events; registered with it when the workers start. */
+    SHIPPING_WEBHOOK_URL: z.string().url().optional(),
+    /** How long one call to the shipping API may take before it counts as failed. */
+    SHIPPING_API_TIMEOUT_MS: z.coerce.number().int().min(100).max(120_000).default(15_000),
+    /** GS1 Company Prefix for the SSCC-18 on each box (default: GS1's documentation example prefix). */
+    SSCC_COMPANY_PREFIX: z.string().regex(/^\d{7,10}$/, 'SSCC_COMPANY_PREFIX must be 7 to 10 digits').default('0614141'),
   })
   .transform((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.JWT_SECRET) {
       ctx.addIssue({ code: 'custom', path: ['JWT_SECRET'], message: 'JWT_SECRET is required in production' });
+    }
+    for (const name of ['SHIPPING_API_KEY', 'SHIPPING_WEBHOOK_SECRET'] as const) {
+      if (env.NODE_ENV === 'production' && !env[name]) ctx.addIssue({ code: 'custom', path: [name], message: `${name} is required in production` });
     }
     return {
       env: env.NODE_ENV,
@@ -62,6 +76,15 @@ const configSchema = z
       jsonBodyLimit: env.JSON_BODY_LIMIT,
       offerResponseBusinessHours: env.OFFER_RESPONSE_BUSINESS_HOURS,
       partnerApiRateLimitPerMinute: env.PARTNER_API_RATE_LIMIT_PER_MINUTE,
+      shipping: {
+        apiUrl: env.SHIPPING_API_URL.endsWith('/') ? env.SHIPPING_API_URL : `${env.SHIPPING_API_URL}/`,
+        // Development falls back to the key the local fake accepts when none is set.
+        apiKey: env.SHIPPING_API_KEY ?? 'shipping_fake_local_key',
+        webhookSecret: env.SHIPPING_WEBHOOK_SECRET ?? 'shipping-fake-local-webhook-secret',
+        webhookUrl: env.SHIPPING_WEBHOOK_URL ?? null,
+        timeoutMs: env.SHIPPING_API_TIMEOUT_MS,
+        ssccCompanyPrefix: env.SSCC_COMPANY_PREFIX,
+      },
     };
   });
 
