@@ -12,6 +12,10 @@ export const queues = {
   offerExpire: 'offer-expire',
   /** Every minute: expire whatever pending offer is past its deadline (a backstop for lost jobs). */
   offerSweep: 'offer-sweep',
+  /** Every few minutes: read the trackers of boxes on the way, for events a webhook never delivered. */
+  shippingReconcile: 'shipping-reconcile',
+  /** Daily: mark boxes whose expected delivery date has passed as overdue. */
+  shippingOverdue: 'shipping-overdue',
 } as const;
 export type QueueName = (typeof queues)[keyof typeof queues];
 export const queueNames: readonly QueueName[] = Object.values(queues);
@@ -21,6 +25,8 @@ export const queueNames: readonly QueueName[] = Object.values(queues);
 const queuePolicies: Record<QueueName, PgBoss.QueuePolicy> = {
   'offer-expire': 'short',
   'offer-sweep': 'short',
+  'shipping-reconcile': 'short',
+  'shipping-overdue': 'short',
 };
 
 /** Starts pg-boss (creating or migrating its schema) and makes sure every queue exists. */
