@@ -137,7 +137,7 @@ export const referralListExample = {
 export const photosResponseExample = [
   {
     id: 'e7c1a9d3-6b2f-4e85-9a40-3f1d8c6b2e75',
-    url: '/api/photos/e7c1a9d3-6b2f-4e85-9a40-3f1d8c6b2e75',
+    url: '/api/v1/photos/e7c1a9d3-6b2f-4e85-9a40-3f1d8c6b2e75',
     contentType: 'image/jpeg',
     sizeBytes: 1843211,
     uploadedAt: '2026-03-02T16:06:40.000Z',

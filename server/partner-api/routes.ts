@@ -3,7 +3,9 @@ import { z } from 'zod';
 import type { ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
 import * as referrals from '../referrals';
-import { addReferralPhotos, filesOf, openPhoto, receivePhotos, sendPhoto, storageFromConfig, type BlobStorage } from '../uploads';
+import type { ReferralPhotoDto } from '@shared/schemas/partner-api';
+import type { ReferralDto } from '@shared/schemas/referrals';
+import { addReferralPhotos, filesOf, listReferralPhotos, openPhoto, receivePhotos, sendPhoto, storageFromConfig, type BlobStorage } from '../uploads';
 import { actorOfKey } from './api-keys';
 import { idempotency } from './idempotency';
 import { apiKeyOf, perKeyRateLimit, requireApiKey } from './middleware';
@@ -17,6 +19,9 @@ function withPartnerConsent(body: unknown): unknown {
   if (body && typeof body === 'object' && !Array.isArray(body) && !('consent' in body)) return { ...body, consent: { accepted: true } };
   return body;
 }
+
+/** Photo links a key can follow: /api/v1/photos/{id} rather than the app's session route. */
+const forKey = (photos: ReferralPhotoDto[]) => photos.map((p) => ({ ...p, url: `/api/v1/photos/${p.id}` }));
 
 const idParam = z.object({ id: z.string().uuid('Not a valid id') });
 const scopeOf = (req: Request) => ({ partnerOrganizationId: apiKeyOf(req).organizationId });
@@ -33,6 +38,8 @@ export function partnerApiRoutes(ctx: ServiceContext, storage: BlobStorage = sto
     res.setHeader('Cache-Control', 'public, max-age=300');
     res.json(openApiDocument(ctx.config));
   });
+
+  const withPhotos = async (dto: ReferralDto): Promise<ReferralDto> => ({ ...dto, photos: forKey(await listReferralPhotos(ctx.db.manager, dto.id)) });
 
   router.use(requireApiKey(ctx), perKeyRateLimit(ctx));
   // Per route, after the body is parsed (multer for photos), so that the fingerprint covers what was sent.
@@ -51,7 +58,7 @@ export function partnerApiRoutes(ctx: ServiceContext, storage: BlobStorage = sto
       withPartnerConsent(req.body),
       { idempotencyKey: res.locals.idempotency?.key },
     );
-    res.status(201).json(created);
+    res.status(201).json(await withPhotos(created));
   });
 
   router.get('/referrals', async (req, res) => {
@@ -60,19 +67,19 @@ export function partnerApiRoutes(ctx: ServiceContext, storage: BlobStorage = sto
 
   router.get('/referrals/:id', async (req, res) => {
     const { id } = parseInput(idParam, req.params);
-    res.json(await referrals.getReferral(ctx, scopeOf(req), id));
+    res.json(await withPhotos(await referrals.getReferral(ctx, scopeOf(req), id)));
   });
 
   router.delete('/referrals/:id', async (req, res) => {
     const { id } = parseInput(idParam, req.params);
-    res.json(await referrals.cancelReferral(ctx, scopeOf(req), id, actorOfKey(apiKeyOf(req))));
+    res.json(await withPhotos(await referrals.cancelReferral(ctx, scopeOf(req), id, actorOfKey(apiKeyOf(req)))));
   });
 
   router.post('/referrals/:id/photos', receivePhotos(), idempotent, async (req, res) => {
     const { id } = parseInput(idParam, req.params);
     const key = apiKeyOf(req);
     const uploader = { partnerOrganizationId: key.organizationId, actor: actorOfKey(key) };
-    res.status(201).json(await addReferralPhotos(ctx, storage, uploader, id, filesOf(req)));
+    res.status(201).json(forKey(await addReferralPhotos(ctx, storage, uploader, id, filesOf(req))));
   });
 
   router.get('/photos/:id', async (req, res) => {

@@ -245,6 +245,18 @@ describe('photos through the partner API', () => {
     expect(other.status).toBe(404);
   });
 
+  it('lists the photos on the case with links the key can follow', async () => {
+    const id = await openCase(a.key);
+    const image = await png();
+    await request(app).post(`/api/referrals/${id}/photos`).set('Authorization', `Bearer ${a.staffToken}`).attach('photos', image, 'desk.png');
+
+    const res = await request(app).get(`/api/v1/referrals/${id}`).set('Authorization', `Bearer ${a.key}`);
+
+    expect(res.body.photos).toEqual([expect.objectContaining({ contentType: 'image/png', sizeBytes: image.length, url: expect.stringMatching(/^\/api\/v1\/photos\//) })]);
+    const followed = await request(app).get(res.body.photos[0].url).set('Authorization', `Bearer ${a.key}`).buffer(true);
+    expect(Buffer.compare(followed.body as Buffer, image)).toBe(0);
+  });
+
   it('answers 404 to another shop’s key for uploading to a case', async () => {
     const id = await openCase(a.key);
     const res = await request(app).post(`/api/v1/referrals/${id}/photos`).set('Authorization', `Bearer ${b.key}`).attach('photos', jpeg, 'a.jpg');
