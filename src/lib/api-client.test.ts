@@ -51,6 +51,30 @@ describe('api client', () => {
     expect(init.headers).toMatchObject({ Authorization: 'Bearer token-a', 'Content-Type': 'application/json' });
   });
 
+  it('sends a FormData body as multipart, leaving the Content-Type with its boundary to the browser', async () => {
+    setAccessToken('token-a');
+    const fetchMock = stubFetch(() => json(201, []));
+    const body = new FormData();
+    body.append('photos', new Blob(['x'], { type: 'image/png' }), 'label.png');
+
+    await api.post('/referrals/r1/photos', { body });
+
+    const [, init = {}] = fetchMock.mock.calls[0];
+    expect(init.body).toBe(body);
+    expect(init.headers).not.toHaveProperty('Content-Type');
+    expect(init.headers).toMatchObject({ Authorization: 'Bearer token-a' });
+  });
+
+  it('returns a binary answer as a Blob when asked for one', async () => {
+    setAccessToken('token-a');
+    stubFetch(() => new Response(new Uint8Array([137, 80, 78, 71]), { status: 200, headers: { 'Content-Type': 'image/png' } }));
+
+    const blob = await api.get<Blob>('/photos/p1', { responseType: 'blob' });
+
+    expect(blob).toBeInstanceOf(Blob);
+    expect(blob.size).toBe(4);
+  });
+
   it('throws the server error body as an ApiError with status, code, message and fields', async () => {
     stubFetch(() => json(400, { error: { code: 'validation_failed', message: 'Check the form', fields: [{ path: 'email', message: 'Enter a valid e-mail address' }] } }));
 

@@ -106,7 +106,7 @@ export function refreshSession(): Promise<SignInResponse | null> {
 }
 
 export interface RequestOptions<T> {
-  /** JSON body; sent with Content-Type application/json. */
+  /** JSON body, sent with Content-Type application/json; a FormData body is sent as multipart as it is. */
   body?: unknown;
   /** Query string values; undefined entries are left out. */
   params?: Record<string, string | number | boolean | undefined | null>;
@@ -119,6 +119,8 @@ export interface RequestOptions<T> {
    * because there a 401 means "wrong password", not "session expired".
    */
   auth?: boolean;
+  /** 'blob' for binary answers (photos, labels); the schema is not applied then. */
+  responseType?: 'json' | 'blob';
 }
 
 function withParams(path: string, params: RequestOptions<unknown>['params']): string {
@@ -132,17 +134,19 @@ function withParams(path: string, params: RequestOptions<unknown>['params']): st
 }
 
 async function request<T>(method: string, path: string, options: RequestOptions<T> = {}): Promise<T> {
-  const { body, params, signal, headers, schema, auth = true } = options;
+  const { body, params, signal, headers, schema, auth = true, responseType = 'json' } = options;
   const url = withParams(path, params);
+  // The browser writes the multipart boundary into Content-Type itself.
+  const multipart = typeof FormData !== 'undefined' && body instanceof FormData;
 
   const attempt = (token: string | null) => {
-    const finalHeaders: Record<string, string> = { Accept: 'application/json', ...headers };
-    if (body !== undefined) finalHeaders['Content-Type'] = 'application/json';
+    const finalHeaders: Record<string, string> = { Accept: responseType === 'blob' ? '*/*' : 'application/json', ...headers };
+    if (body !== undefined && !multipart) finalHeaders['Content-Type'] = 'application/json';
     if (auth && token) finalHeaders.Authorization = `Bearer ${token}`;
     return send(url, {
       method,
       headers: finalHeaders,
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : multipart ? (body as FormData) : JSON.stringify(body),
       signal,
     });
   };
@@ -164,6 +168,7 @@ async function request<T>(method: string, path: string, options: RequestOptions<
   }
 
   if (!response.ok) throw await errorFrom(response);
+  if (responseType === 'blob') return (await response.blob()) as T;
   if (response.status === 204 || response.headers.get('Content-Length') === '0') return undefined as T;
 
   const contentType = response.headers.get('Content-Type') ?? '';

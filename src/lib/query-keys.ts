@@ -21,3 +21,48 @@ export const staffKeys = {
   all: ['staff'] as const,
   lists: () => [...staffKeys.all, 'list'] as const,
 };
+
+/** The intake form's live ranking; the key holds the device, symptoms and origin it was asked for. */
+export const routingPreviewKeys = {
+  all: ['routing-preview'] as const,
+  preview: (input: unknown) => [...routingPreviewKeys.all, input] as const,
+};
+
+/** Condition photos, fetched with the bearer token and shown from object URLs. */
+export const photoKeys = {
+  all: ['photos'] as const,
+  photo: (id: string) => [...photoKeys.all, id] as const,
+};
+
+export type OfferListFilters = Record<string, string | undefined>;
+
+/** A lab's offers. Answering an offer also changes its case, so mutations invalidate caseKeys too. */
+export const offerKeys = {
+  all: ['offers'] as const,
+  lists: () => [...offerKeys.all, 'list'] as const,
+  list: (filters: OfferListFilters = {}) => [...offerKeys.lists(), filters] as const,
+  details: () => [...offerKeys.all, 'detail'] as const,
+  detail: (id: string) => [...offerKeys.details(), id] as const,
+};
+
+export const labProfileKeys = {
+  all: ['lab-profile'] as const,
+  own: () => [...labProfileKeys.all, 'own'] as const,
+};
+
+/** The network admin's views: the needs-attention queue and the lab list. */
+export const networkKeys = {
+  all: ['network'] as const,
+  attention: () => [...networkKeys.all, 'attention'] as const,
+  labs: () => [...networkKeys.all, 'labs'] as const,
+  labList: (filters: { skill?: string } = {}) => [...networkKeys.labs(), filters] as const,
+};
+
+export const apiKeyKeys = {
+  all: ['api-keys'] as const,
+  lists: () => [...apiKeyKeys.all, 'list'] as const,
+};
+
+export const apiDocumentKeys = {
+  all: ['api-document'] as const,
+};

@@ -6,6 +6,8 @@ export interface TableColumn<Row> {
   cell: (row: Row) => ReactNode;
   /** Extra classes for this column's cells, e.g. "text-right tabular-nums". */
   className?: string;
+  /** For a sortable column: how the rows are sorted by it now (put a sort button in `header`). */
+  sort?: 'ascending' | 'descending' | 'none';
 }
 
 export interface TableProps<Row> {
@@ -30,7 +32,7 @@ export function Table<Row>({ caption, captionHidden = true, columns, rows, rowKe
         <thead className="bg-paper-sunken/60">
           <tr>
             {columns.map((column, index) => (
-              <th key={index} scope="col" className={cn('px-4 py-2.5 text-xs font-semibold tracking-wide text-ink-muted uppercase', column.className)}>
+              <th key={index} scope="col" aria-sort={column.sort} className={cn('px-4 py-2.5 text-xs font-semibold tracking-wide text-ink-muted uppercase', column.className)}>
                 {column.header}
               </th>
             ))}

@@ -1,15 +1,14 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import { PageHeader } from '@/components/layouts/page-header';
+import { ReferralForm } from '@/features/referrals/components/referral-form';
 
-export default function Page() {
+export default function NewReferralPage() {
   return (
-    <PlaceholderPage
-      title="New referral"
-      description="Open a case for a customer's failed drive, phone or memory card and let the network find the right lab."
-      upcoming={[
-        'A short intake: the device, what happened to it, and which files matter most to the customer.',
-        'Handling cautions for the device (for example: do not power a clicking drive again) before you pack it.',
-        'A battery declaration for phones and tablets, and the lab the network suggests, with its reasons.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="New referral"
+        description="Describe the device and what happened to it. The network works out the skills it needs and offers it to the lab that can get the customer’s data back soonest."
+      />
+      <ReferralForm />
+    </>
   );
 }
