@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import express from 'express';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
@@ -464,5 +465,20 @@ describe('POST /api/v1/routing/preview', () => {
     const res = await request(app).post('/api/v1/routing/preview').set('Authorization', `Bearer ${shop.key}`).send({ device: { mediaType: 'zip_disk' } });
     expect(res.status).toBe(400);
     expect(res.body.error.fields[0].path).toBe('device.mediaType');
+  });
+});
+
+describe('the README’s curl example', () => {
+  it('opens a case with the demo key exactly as written', async () => {
+    const readme = readFileSync('README.md', 'utf8');
+    const block = readme.slice(readme.indexOf('curl -X POST http://localhost:3000/api/v1/referrals'));
+    const auth = /-H 'Authorization: (Bearer [^']+)'/.exec(block)![1]!;
+    const body = JSON.parse(/-d '([\s\S]*?)'\n/.exec(block)![1]!);
+
+    const res = await request(app).post('/api/v1/referrals').set('Authorization', auth).set('Idempotency-Key', unique('readme-')).send(body);
+
+    expect(res.status).toBe(201);
+    expect(res.body.partner.name).toBe('Juniper Lane PC Clinic');
+    expect(res.body.externalRef).toBe(body.externalRef);
   });
 });
