@@ -121,6 +121,79 @@ export const emailTemplates = {
       action: { label: 'Open the attention queue', url: d.url },
     }),
   }),
+  // The customer's side of a case: each message carries the customer's private link.
+  customer_case_link: (d: { customerName: string; reference: string; shopName: string; url: string }) => ({
+    subject: `Your data recovery case ${d.reference}`,
+    ...layout({
+      heading: 'Follow your data recovery',
+      paragraphs: [
+        `Hello ${d.customerName},`,
+        `${d.shopName} sent your device to a recovery lab through Platterpost (case ${d.reference}). Your private page shows where it is, the lab’s quote when it is ready, and the files the lab recovers.`,
+      ],
+      action: { label: 'Open your case', url: d.url },
+      note: 'Keep this link to yourself: anyone who has it can see the case. Your shop can switch it off and send you a new one.',
+    }),
+  }),
+  customer_quote_ready: (d: { customerName: string; reference: string; labName: string; shopName: string; total: string; recoverability: string; url: string }) => ({
+    subject: `Your recovery quote is ready: ${d.total} (case ${d.reference})`,
+    ...layout({
+      heading: 'The lab has examined your device',
+      paragraphs: [
+        `Hello ${d.customerName},`,
+        `${d.labName} has examined the device ${d.shopName} sent in (case ${d.reference}). Their estimate: ${d.recoverability}.`,
+        `The quote comes to ${d.total}, line by line on your page. Nothing is charged until you approve it and pay.`,
+      ],
+      action: { label: 'See the quote', url: d.url },
+      note: 'Keep this link to yourself: anyone who has it can see the case.',
+    }),
+  }),
+  customer_no_recovery: (d: { customerName: string; reference: string; labName: string; shopName: string; url: string }) => ({
+    subject: `Case ${d.reference}: the lab cannot recover the data`,
+    ...layout({
+      heading: 'No recovery is possible',
+      paragraphs: [
+        `Hello ${d.customerName},`,
+        `We are sorry: after examining the device, ${d.labName} found that the data on it cannot be recovered. You owe nothing for the evaluation.`,
+        `${d.shopName} will arrange the device’s return. Your page has the lab’s findings.`,
+      ],
+      action: { label: 'Open your case', url: d.url },
+    }),
+  }),
+  customer_payment_received: (d: { customerName: string; reference: string; amount: string; labName: string }) => ({
+    subject: `Payment received for case ${d.reference}: ${d.amount}`,
+    ...layout({
+      heading: 'Thank you: your payment arrived',
+      paragraphs: [
+        `Hello ${d.customerName},`,
+        `We received ${d.amount} for case ${d.reference}. ${d.labName} now starts imaging your device and recovering the files.`,
+        'When the files are recovered you get an e-mail asking you to check that the ones that matter are there, before the data ships back.',
+      ],
+    }),
+  }),
+  customer_files_ready: (d: { customerName: string; reference: string; labName: string; fileCount: string; url: string }) => ({
+    subject: `Your recovered files are ready to review (case ${d.reference})`,
+    ...layout({
+      heading: 'Check your recovered files',
+      paragraphs: [
+        `Hello ${d.customerName},`,
+        `${d.labName} has recovered ${d.fileCount} from your device (case ${d.reference}).`,
+        'Your page groups them by the kinds of files you said matter most. Please confirm that what you need is there, or tell the lab what is missing, before the data ships back.',
+      ],
+      action: { label: 'Review the files', url: d.url },
+      note: 'Keep this link to yourself: anyone who has it can see the case.',
+    }),
+  }),
+  webhook_endpoint_disabled: (d: { name: string; url: string; reason: string }) => ({
+    subject: 'A webhook endpoint of yours was disabled',
+    ...layout({
+      heading: 'We stopped sending events to one of your endpoints',
+      paragraphs: [
+        `Hello ${d.name},`,
+        `${d.reason}, so we disabled the endpoint ${d.url} and stopped retrying its events.`,
+        'When it answers again, enable it under Settings → Webhooks; you can send missed events again from its delivery log.',
+      ],
+    }),
+  }),
 } satisfies Record<string, (data: never) => RenderedEmail>;
 
 export type EmailTemplate = keyof typeof emailTemplates;
