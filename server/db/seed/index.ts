@@ -1,16 +1,19 @@
 import zipcodes from 'zipcodes';
 import type { DataSource } from 'typeorm';
+import { loadConfig, type Config } from '../../config';
 import { hashPassword, User } from '../../auth';
 import { Organization } from '../../organizations';
 import { DEMO_PASSWORD, demoAccounts } from './demo-accounts';
 import { seedDemoApiKeys } from './demo-api-keys';
+import { seedDemoCases } from './demo-cases';
+import { seedDemoLabs } from './demo-labs';
 import { demoExtraStaff, demoOrganizations } from './demo-data';
 
 /**
  * Seeds the demo network once. Runs in one transaction and only when the network
  * organisation is missing, so a second start neither duplicates nor wipes anything.
  */
-export async function seedDemo(db: DataSource): Promise<{ seeded: boolean }> {
+export async function seedDemo(db: DataSource, config: Config = loadConfig()): Promise<{ seeded: boolean }> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   return db.transaction(async (manager) => {
     // Serialise concurrent starts (two processes seeding the same empty database).
@@ -47,6 +50,9 @@ export async function seedDemo(db: DataSource): Promise<{ seeded: boolean }> {
       );
     }
     await seedDemoApiKeys(manager, orgIds);
+    const now = new Date();
+    await seedDemoLabs(manager, orgIds, now);
+    await seedDemoCases(manager, orgIds, { config, passwordHash, now });
     return { seeded: true };
   });
 }
