@@ -15,6 +15,7 @@ import { referralRoutes } from './referrals';
 import { routingRoutes } from './routing';
 import { apiKeyRoutes, partnerApiRoutes } from './partner-api';
 import { photoRoutes } from './uploads';
+import { webhookRoutes } from './webhooks';
 
 export interface AppDeps {
   config: Config;
@@ -78,6 +79,7 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use('/api', apiKeyRoutes(ctx, guard));
   app.use('/api/v1', partnerApiRoutes(ctx));
   app.use('/api', photoRoutes(ctx, guard));
+  app.use('/api', webhookRoutes(ctx, guard));
   app.use('/api', notFoundHandler);
 
   // The built client, with the router's paths falling back to index.html.

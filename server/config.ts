@@ -29,6 +29,16 @@ const configSchema = z
     UPLOAD_DIR: z.string().default('.data/uploads'),
     RUN_WORKERS: bool.default(true),
     JSON_BODY_LIMIT: z.string().default('256kb'),
+    // Seconds to wait after each failed webhook delivery; about 24 hours in all (the issue's window).
+    WEBHOOK_RETRY_SCHEDULE_SECONDS: z
+      .string()
+      .default('10,60,300,1800,3600,7200,14400,28800,28800')
+      .transform((v, ctx) => {
+        const steps = v.split(',').map((s) => Number(s.trim()));
+        if (steps.some((n) => !Number.isFinite(n) || n < 0)) ctx.addIssue({ code: 'custom', message: 'a comma-separated list of seconds' });
+        return steps;
+      }),
+    WEBHOOK_DISABLE_AFTER_HOURS: z.coerce.number().min(0).default(24),
     /** Business hours (in the lab's calendar) a lab has to answer an offer. */
     OFFER_RESPONSE_BUSINESS_HOURS: z.coerce.number().positive().max(80).default(4),
     /** Requests per minute per partner API key; load tests raise it. */
@@ -74,6 +84,7 @@ const configSchema = z
       uploadDir: env.UPLOAD_DIR,
       runWorkers: env.RUN_WORKERS,
       jsonBodyLimit: env.JSON_BODY_LIMIT,
+      webhooks: { retryScheduleSeconds: env.WEBHOOK_RETRY_SCHEDULE_SECONDS, disableAfterMs: env.WEBHOOK_DISABLE_AFTER_HOURS * 3_600_000 },
       offerResponseBusinessHours: env.OFFER_RESPONSE_BUSINESS_HOURS,
       partnerApiRateLimitPerMinute: env.PARTNER_API_RATE_LIMIT_PER_MINUTE,
       shipping: {

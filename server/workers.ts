@@ -4,18 +4,29 @@ import { reportError } from './lib/errors';
 import { createMailTransport, dispatchOutbox } from './notifications';
 import { startJobRelay, startQueue } from './jobs';
 import { registerRoutingJobs } from './routing';
+import { dispatchWebhooks } from './webhooks';
+
+/** Which loops to run; all by default. Tests pick the one they exercise. */
+export interface WorkerSelection {
+  mail?: boolean;
+  jobs?: boolean;
+  webhooks?: boolean;
+}
 
 export interface Workers {
   stop(): Promise<void>;
 }
 
 /** Background work: the mail outbox and the job queue (offer deadlines); started with the server or by `npm run worker`. */
-export async function startWorkers({ config, db }: { config: Config; db: DataSource }): Promise<Workers> {
+export async function startWorkers(
+  { config, db }: { config: Config; db: DataSource },
+  only: WorkerSelection = { mail: true, jobs: true, webhooks: true },
+): Promise<Workers> {
   const transport = createMailTransport(config.smtp);
   let stopped = false;
   let running: Promise<unknown> = Promise.resolve();
   const tick = async () => {
-    if (stopped) return;
+    if (stopped || !only.mail) return;
     running = dispatchOutbox(db, transport, { from: config.mailFrom })
       .catch((err) => reportError(err, { worker: 'outbox' }))
       .finally(() => {
@@ -23,17 +34,29 @@ export async function startWorkers({ config, db }: { config: Config; db: DataSou
       });
   };
   let timer = setTimeout(tick, 100);
+  // Partner webhooks: each delivery row is its own job (due time, attempts), claimed with SKIP LOCKED.
+  let webhookRun: Promise<unknown> = Promise.resolve();
+  const webhookTick = () => {
+    if (stopped || !only.webhooks) return;
+    webhookRun = dispatchWebhooks(db, config.webhooks)
+      .catch((err) => reportError(err, { worker: 'webhooks' }))
+      .finally(() => {
+        if (!stopped) webhookTimer = setTimeout(webhookTick, 500);
+      });
+  };
+  let webhookTimer = setTimeout(webhookTick, 200);
   // pg-boss on the same PostgreSQL; jobs written in a transaction reach it through the job outbox relay.
-  const boss = await startQueue(config);
-  await registerRoutingJobs({ config, db }, boss);
-  const relay = startJobRelay(db, boss, (err) => reportError(err, { worker: 'job-relay' }));
+  const boss = only.jobs ? await startQueue(config) : null;
+  if (boss) await registerRoutingJobs({ config, db }, boss);
+  const relay = boss ? startJobRelay(db, boss, (err) => reportError(err, { worker: 'job-relay' })) : null;
   return {
     async stop() {
       stopped = true;
       clearTimeout(timer);
-      await running;
-      await relay.stop();
-      await boss.stop({ graceful: true, timeout: 5000 });
+      clearTimeout(webhookTimer);
+      await Promise.all([running, webhookRun]);
+      await relay?.stop();
+      await boss?.stop({ graceful: true, timeout: 5000 });
       transport.close();
     },
   };

@@ -8,6 +8,7 @@ import { Referral, TimelineEntry } from '../referrals/entities';
 import { CleanAirCertificate, LabOffer, LabProfile, RoutingSnapshot } from '../routing/entities';
 import { ApiKey, IdempotencyRecord } from '../partner-api/entities';
 import { ReferralPhoto } from '../uploads/entities';
+import { WebhookAttempt, WebhookDelivery, WebhookEndpoint, WebhookEvent } from '../webhooks/entities';
 
 export const entities = [
   Organization,
@@ -26,4 +27,8 @@ export const entities = [
   LabOffer,
   JobOutboxRow,
   ReferralPhoto,
+  WebhookEndpoint,
+  WebhookEvent,
+  WebhookDelivery,
+  WebhookAttempt,
 ];

@@ -6,7 +6,7 @@ import { User } from '../../server/auth';
 import { linkToken, refreshCookieFrom, setupApi, signIn, unique, waitForMail } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
-const { app, db, config } = await setupApi({ SIGN_IN_MAX_FAILURES: '5', SIGN_IN_LOCK_MINUTES: '15' }, { workers: true });
+const { app, db, config } = await setupApi({ SIGN_IN_MAX_FAILURES: '5', SIGN_IN_LOCK_MINUTES: '15' }, { workers: { mail: true } });
 
 describe('sign-in', () => {
   it.each(demoAccounts)('signs in the demo $role and answers the user with its organisation', async (account) => {

@@ -7,7 +7,7 @@ import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
 import { createDataSource } from '../../server/db/data-source';
 import { setLogLevel } from '../../server/lib/logger';
-import { startWorkers, type Workers } from '../../server/workers';
+import { startWorkers, type WorkerSelection, type Workers } from '../../server/workers';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
 
 export interface TestContext {
@@ -17,7 +17,7 @@ export interface TestContext {
 }
 
 /** The real app on the real test database; hosted services are our fakes. Closed after the file. */
-export async function setupApi(overrides: Record<string, string> = {}, options: { workers?: boolean } = {}): Promise<TestContext> {
+export async function setupApi(overrides: Record<string, string> = {}, options: { workers?: WorkerSelection } = {}): Promise<TestContext> {
   const config = loadConfig({
     NODE_ENV: 'test',
     DATABASE_URL: inject('databaseUrl'),
@@ -29,7 +29,7 @@ export async function setupApi(overrides: Record<string, string> = {}, options: 
   setLogLevel(config.logLevel);
   const db = await createDataSource({ url: config.databaseUrl, poolSize: 4, applicationName: 'platterpost-test' }).initialize();
   let workers: Workers | undefined;
-  if (options.workers) workers = await startWorkers({ config, db });
+  if (options.workers) workers = await startWorkers({ config, db }, options.workers);
   afterAll(async () => {
     await workers?.stop();
     await db.destroy();
