@@ -54,10 +54,23 @@ const configSchema = z
     SHIPPING_API_TIMEOUT_MS: z.coerce.number().int().min(100).max(120_000).default(15_000),
     /** GS1 Company Prefix for the SSCC-18 on each box (default: GS1's documentation example prefix). */
     SSCC_COMPANY_PREFIX: z.string().regex(/^\d{7,10}$/, 'SSCC_COMPANY_PREFIX must be 7 to 10 digits').default('0614141'),
+    /** The payment provider (our local fake in development and tests), reached through the official SDK. */
+    PAYMENTS_API_URL: z.string().url().default('http://127.0.0.1:4020'),
+    PAYMENTS_SECRET_KEY: z.string().min(8, 'PAYMENTS_SECRET_KEY looks too short').optional(),
+    PAYMENTS_WEBHOOK_SECRET: z.string().min(8, 'PAYMENTS_WEBHOOK_SECRET looks too short').optional(),
+    /** Immediate retries the SDK makes itself on a network error or 5xx (same Idempotency-Key). */
+    PAYMENTS_MAX_NETWORK_RETRIES: z.coerce.number().int().min(0).max(10).default(2),
+    /** Transfers a settlement run sends at once. */
+    SETTLEMENT_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(8),
+    /** Attempts at one payout before it waits for a person (retried with back-off in between). */
+    PAYOUT_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(50).default(6),
   })
   .transform((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.JWT_SECRET) {
       ctx.addIssue({ code: 'custom', path: ['JWT_SECRET'], message: 'JWT_SECRET is required in production' });
+    }
+    for (const key of ['PAYMENTS_SECRET_KEY', 'PAYMENTS_WEBHOOK_SECRET'] as const) {
+      if (env.NODE_ENV === 'production' && !env[key]) ctx.addIssue({ code: 'custom', path: [key], message: `${key} is required in production` });
     }
     for (const name of ['SHIPPING_API_KEY', 'SHIPPING_WEBHOOK_SECRET'] as const) {
       if (env.NODE_ENV === 'production' && !env[name]) ctx.addIssue({ code: 'custom', path: [name], message: `${name} is required in production` });
@@ -96,6 +109,15 @@ const configSchema = z
         timeoutMs: env.SHIPPING_API_TIMEOUT_MS,
         ssccCompanyPrefix: env.SSCC_COMPANY_PREFIX,
       },
+      payments: {
+        apiUrl: env.PAYMENTS_API_URL.replace(/\/$/, ''),
+        // Development and test fall back to the local fake's own defaults (fakes/payments/main.ts).
+        secretKey: env.PAYMENTS_SECRET_KEY ?? 'sk_test_platterpost_local',
+        webhookSecret: env.PAYMENTS_WEBHOOK_SECRET ?? 'whsec_platterpost_local',
+        maxNetworkRetries: env.PAYMENTS_MAX_NETWORK_RETRIES,
+      },
+      settlementConcurrency: env.SETTLEMENT_CONCURRENCY,
+      payoutMaxAttempts: env.PAYOUT_MAX_ATTEMPTS,
     };
   });
 
