@@ -109,7 +109,7 @@ export function toReferralDto({ referral: r, partnerName, labName, snapshot, off
     offer: current ? toOfferDto(current, labNames.get(current.labOrganizationId) ?? '') : null,
     lab: r.labOrganizationId && labName ? { id: r.labOrganizationId, name: labName } : null,
     attentionReason: r.attentionReason,
-    // Photos arrive with the uploads component and shipments with shipping; neither stores anything yet.
+    // Filled in by getReferral from the uploads component; shipments arrive with shipping.
     photos: [],
     timeline: timeline.map(toTimelineDto),
     shipments: [],

@@ -20,6 +20,7 @@ import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
 import { enqueueEmail } from '../notifications';
 import { Organization } from '../organizations';
+import { listReferralPhotos } from '../uploads';
 import {
   LabOffer,
   RoutingSnapshot,
@@ -287,13 +288,14 @@ export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id:
     relations: { partnerOrganization: true, labOrganization: true },
   });
   if (!referral) throw AppError.notFound('That case');
-  const parts = await loadParts(manager, referral);
-  return toReferralDto({
+  const [parts, photos] = await Promise.all([loadParts(manager, referral), listReferralPhotos(manager, referral.id)]);
+  const dto = toReferralDto({
     referral,
     partnerName: referral.partnerOrganization?.name ?? '',
     labName: referral.labOrganization?.name ?? null,
     ...parts,
   });
+  return { ...dto, photos: photos.map((p) => ({ id: p.id, url: p.url, contentType: p.contentType, sizeBytes: p.sizeBytes })) };
 }
 
 const CURSOR = /^(\d{1,20})\.([0-9a-f-]{36})$/;

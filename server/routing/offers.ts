@@ -19,7 +19,9 @@ function labIdOf(actor: Actor): string {
   return actor.organizationId;
 }
 
-export function toLabOfferDto(offer: LabOffer, referral: Referral, shop: Pick<Organization, 'name' | 'city' | 'region'>): LabOfferDto {
+type Photo = LabOfferDto['case']['photos'][number];
+
+export function toLabOfferDto(offer: LabOffer, referral: Referral, shop: Pick<Organization, 'name' | 'city' | 'region'>, photos: Photo[] = []): LabOfferDto {
   const t = referral.triage;
   return {
     id: offer.id,
@@ -52,8 +54,7 @@ export function toLabOfferDto(offer: LabOffer, referral: Referral, shop: Pick<Or
       sensitivity: referral.sensitivity,
       battery: referral.battery ? { installed: referral.battery.installed, condition: referral.battery.condition, wattHours: referral.battery.wattHours } : null,
       triage: { requiredSkills: t.requiredSkills, needsCleanAir: t.needsCleanAir, needsHealthDataAgreement: t.needsHealthDataAgreement, cautions: t.cautions },
-      // Intake photos arrive with the uploads component; none are stored with the case yet.
-      photos: [],
+      photos,
     },
   };
 }
@@ -69,7 +70,22 @@ async function offerRows(manager: EntityManager, where: { labId: string; offerId
   if (where.offerId) qb.andWhere('o.id = :offerId', { offerId: where.offerId });
   if (where.status) qb.andWhere('o.status = :status', { status: where.status });
   const rows = (await qb.getMany()) as (LabOffer & { referral: Referral; shop: Organization })[];
-  return rows.map((o) => toLabOfferDto(o, o.referral, o.shop));
+  // The lab may see the condition photos of cases offered to it; the uploads component serves them at
+  // /api/photos/:id to the same readers. Read here from its table, since uploads itself imports routing.
+  const photoRows: { id: string; referral_id: string; content_type: string; size_bytes: number }[] = rows.length
+    ? await manager.query(
+        `SELECT id, referral_id, content_type, size_bytes FROM referral_photos WHERE referral_id = ANY($1::uuid[]) ORDER BY uploaded_at, id`,
+        [[...new Set(rows.map((o) => o.referralId))]],
+      )
+    : [];
+  return rows.map((o) =>
+    toLabOfferDto(
+      o,
+      o.referral,
+      o.shop,
+      photoRows.filter((p) => p.referral_id === o.referralId).map((p) => ({ id: p.id, url: `/api/photos/${p.id}`, contentType: p.content_type, sizeBytes: p.size_bytes })),
+    ),
+  );
 }
 
 export async function listLabOffers(ctx: ServiceContext, actor: Actor, query: unknown): Promise<{ data: LabOfferDto[] }> {

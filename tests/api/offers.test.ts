@@ -1,6 +1,10 @@
+import { mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import bwipjs from 'bwip-js/node';
 import request from 'supertest';
 import zipcodes from 'zipcodes';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, describe, expect, it } from 'vitest';
 import { labOfferDto, labOfferListDto } from '@shared/schemas/labs';
 import { roles, type Role } from '@shared/vocabulary';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
@@ -10,8 +14,10 @@ import { expireOffer } from '../../server/routing';
 import { setupApi, signIn, unique } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
-const { app, db, config } = await setupApi();
+const uploadDir = mkdtempSync(path.join(os.tmpdir(), 'platterpost-offers-uploads-'));
+const { app, db, config } = await setupApi({ UPLOAD_DIR: uploadDir });
 const ctx = { db, config };
+afterAll(() => rmSync(uploadDir, { recursive: true, force: true }));
 
 // Offers from the lab's side: seeing them, accepting, declining, deadlines. This file's shops and labs
 // sit in Bangor, ME (ZIP 04401), far from the other files' and the demo network's; its labs answer in
@@ -119,6 +125,25 @@ describe('what a lab sees', () => {
     }
     const [row] = await db.query(`SELECT status FROM lab_offers WHERE id = $1`, [offerId]);
     expect(row.status).toBe('pending');
+  });
+});
+
+describe('condition photos', () => {
+  it('shows the lab offered the case its photos, which the lab can open, and the shop sees them on the case', async () => {
+    const { shop, first, second, referral: kase, offerId } = await offeredCase();
+    const image = await bwipjs.toBuffer({ bcid: 'code128', text: unique('PHOTO') });
+    const upload = await request(app).post(`/api/referrals/${kase.id}/photos`).set(auth(shop.token)).attach('photos', image, 'label-side.png');
+    expect(upload.status).toBe(201);
+    const photoId = upload.body[0].id as string;
+
+    const offer = await request(app).get(`/api/lab/offers/${offerId}`).set(auth(first.token));
+    expect(offer.body.case.photos).toEqual([{ id: photoId, url: `/api/photos/${photoId}`, contentType: 'image/png', sizeBytes: image.length }]);
+    const file = await request(app).get(offer.body.case.photos[0].url).set(auth(first.token));
+    expect(file.status).toBe(200);
+    expect((await request(app).get(`/api/photos/${photoId}`).set(auth(second.token))).status).toBe(404);
+
+    const onCase = await referral(kase.id, shop.token);
+    expect(onCase.photos).toEqual([{ id: photoId, url: `/api/photos/${photoId}`, contentType: 'image/png', sizeBytes: image.length }]);
   });
 });
 
