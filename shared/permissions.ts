@@ -17,6 +17,8 @@ export const permissions = {
   'photos.read': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
   'webhooks.manage': ['partner_admin'],
   'payouts.manage': ['partner_admin'],
+  // A lab's payout account and its monthly statements.
+  'lab-payouts.manage': ['lab_manager'],
   'offers.respond': ['lab_manager'],
   'lab-profile.manage': ['lab_manager', 'network_admin'],
   'inbound.read': ['shipping_clerk', 'lab_manager'],

@@ -16,6 +16,12 @@ export const queues = {
   shippingReconcile: 'shipping-reconcile',
   /** Daily: mark boxes whose expected delivery date has passed as overdue. */
   shippingOverdue: 'shipping-overdue',
+  /** On the 1st of the month: settle the month that just ended (commission and lab shares, transfers). */
+  settlementMonthly: 'settlement-monthly',
+  /** { statementId }: try a failed payout again once its back-off has passed. */
+  payoutRetry: 'payout-retry',
+  /** Every few minutes: retry due payouts whose retry job was lost, and finish payouts a crash left open. */
+  payoutSweep: 'payout-sweep',
 } as const;
 export type QueueName = (typeof queues)[keyof typeof queues];
 export const queueNames: readonly QueueName[] = Object.values(queues);
@@ -27,6 +33,9 @@ const queuePolicies: Record<QueueName, PgBoss.QueuePolicy> = {
   'offer-sweep': 'short',
   'shipping-reconcile': 'short',
   'shipping-overdue': 'short',
+  'settlement-monthly': 'short',
+  'payout-retry': 'short',
+  'payout-sweep': 'short',
 };
 
 /** Starts pg-boss (creating or migrating its schema) and makes sure every queue exists. */
