@@ -194,6 +194,41 @@ export const emailTemplates = {
       ],
     }),
   }),
+  // Money: monthly statements and payouts (settlement).
+  statement_ready: (d: { name: string; organizationName: string; period: string; total: string; payout: string; note: string; url: string }) => ({
+    subject: `Your Platterpost statement for ${d.period} is ready`,
+    ...layout({
+      heading: `Statement for ${d.period}`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `The statement of ${d.organizationName} for ${d.period} is ready: ${d.total} in all, ${d.payout} to be paid out.`,
+        d.note,
+        'Every line on it is linked to its case, so you can reconcile it with your own records.',
+      ],
+      action: { label: 'Open your statements', url: d.url },
+    }),
+  }),
+  payout_sent: (d: { name: string; organizationName: string; period: string; amount: string; transferId: string; url: string }) => ({
+    subject: `Payout of ${d.amount} sent for ${d.period}`,
+    ...layout({
+      heading: `${d.amount} is on its way`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `We sent ${d.amount} to the payout account of ${d.organizationName} for ${d.period} (transfer ${d.transferId}).`,
+        'Your payment provider moves it on to your bank on its own schedule.',
+      ],
+      action: { label: 'See the statement', url: d.url },
+    }),
+  }),
+  payout_failed: (d: { name: string; organizationName: string; period: string; amount: string; reason: string; nextStep: string; url: string }) => ({
+    subject: `Payout for ${d.period} could not be sent yet`,
+    ...layout({
+      heading: 'A payout did not go through',
+      paragraphs: [`Hello ${d.name},`, `The payout of ${d.amount} to ${d.organizationName} for ${d.period} failed: ${d.reason}`, d.nextStep],
+      action: { label: 'Check your payout account', url: d.url },
+      note: 'Nothing is lost: the amount stays on your statement until it is paid, and it is never paid twice.',
+    }),
+  }),
 } satisfies Record<string, (data: never) => RenderedEmail>;
 
 export type EmailTemplate = keyof typeof emailTemplates;
