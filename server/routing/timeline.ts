@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { TimelineEntry, type TimelineActorType } from '../referrals/entities';
+import { emitForTimelineEntry } from '../webhooks';
 
 export interface TimelineActor {
   type: TimelineActorType;
@@ -19,12 +20,14 @@ export interface TimelineInput {
   at?: Date;
 }
 
-/** Appends one step to a case's timeline, in the caller's transaction. */
+/** Appends one step to a case's timeline, in the caller's transaction, with its partner event if it has one. */
 export async function recordTimeline(manager: EntityManager, referralId: string, entry: TimelineInput): Promise<void> {
+  const at = entry.at ?? new Date();
+  await emitForTimelineEntry(manager, referralId, { kind: entry.kind, summary: entry.summary, at, actorName: entry.actor.name, details: entry.details });
   await manager.save(
     manager.create(TimelineEntry, {
       referralId,
-      at: entry.at ?? new Date(),
+      at,
       kind: entry.kind,
       summary: entry.summary,
       actorType: entry.actor.type,

@@ -7,7 +7,7 @@ import { dispatchWebhooks, emitPartnerEvent } from '../../server/webhooks';
 import { setupApi, signIn, waitForMail } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
-const { app, db } = await setupApi({}, { workers: { mail: true } });
+const { app, db, config } = await setupApi({}, { workers: { mail: true } });
 
 // A partner's receiving system on loopback; each test scripts its answers.
 const received: { headers: IncomingHttpHeaders; body: string }[] = [];
@@ -158,5 +158,34 @@ describe('partner webhook deliveries', () => {
     expect(endpoint.disabledReason).toMatch(/failed for a day/);
     const mail = await waitForMail(admin.email, (m) => m.subject.includes('webhook'));
     expect(mail.text).toContain(receiverUrl);
+  });
+});
+
+describe('partner events from the case timeline', () => {
+  it('sends referral.created, signed, when the shop opens a referral', async () => {
+    const { auth, org, admin } = await partnerAdmin();
+    await db.query(`UPDATE organizations SET postal_code = '59801', lat = 46.87, lon = -113.99 WHERE id = $1`, [org.id]);
+    const { secret } = await register(auth, ['referral.created']);
+    const { createReferral } = await import('../../server/referrals');
+    received.length = 0;
+    const created = await createReferral(
+      { db, config },
+      { partnerOrganizationId: org.id, actor: { type: 'user', id: admin.id, name: admin.name } },
+      {
+        customer: { name: 'Ada Customer', email: 'ada@customer.example' },
+        device: { mediaType: 'usb_flash' },
+        symptoms: ['deleted_files'],
+        priorities: [{ category: 'photos' }],
+        sensitivity: [],
+        origin: { postalCode: '59801', country: 'US' },
+        consent: { accepted: true },
+      },
+    );
+    await dispatchUntilIdle();
+    const got = received.find((r) => r.body.includes(created.reference));
+    expect(got).toBeDefined();
+    const payload = new Webhook(secret).verify(got!.body, got!.headers as Record<string, string>) as { type: string; data: { referral: { id: string } } };
+    expect(payload.type).toBe('referral.created');
+    expect(payload.data.referral.id).toBe(created.id);
   });
 });
