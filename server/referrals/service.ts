@@ -13,7 +13,7 @@ import {
   type RoutingPreviewDto,
 } from '@shared/schemas/referrals';
 import type { AttentionItemDto } from '@shared/schemas/labs';
-import { caseStatusLabels, type CaseStatus } from '@shared/vocabulary';
+import { caseStatusLabels, labSkillLabels, type CaseStatus } from '@shared/vocabulary';
 import { recordAudit } from '../audit';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
@@ -253,7 +253,7 @@ export async function openReferral(
   });
   await recordTimeline(manager, referral.id, {
     kind: 'triaged',
-    summary: `Needs ${triaged.requiredSkills.join(', ')}${triaged.needsCleanAir ? ' (clean air)' : ''}; ${triaged.cautions.length} ${triaged.cautions.length === 1 ? 'caution' : 'cautions'} for the shop.`,
+    summary: `Needs ${triaged.requiredSkills.map((k) => labSkillLabels[k]).join(', ')}${triaged.needsCleanAir ? ' (in clean air)' : ''}; ${triaged.cautions.length} ${triaged.cautions.length === 1 ? 'caution' : 'cautions'} for the shop.`,
     actor: triageActor,
     at: now,
     details: {
