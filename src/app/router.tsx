@@ -75,6 +75,7 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: partner(paths.partner.earnings.path), lazy: page('partner', () => import('./routes/partner/earnings')) },
             { path: partner(paths.partner.staff.path), lazy: page('partner', () => import('./routes/partner/staff')) },
             { path: partner(paths.partner.apiKeys.path), lazy: page('partner', () => import('./routes/partner/api-keys')) },
+            { path: partner(paths.partner.apiGuide.path), lazy: page('partner', () => import('./routes/partner/api-guide')) },
             { path: partner(paths.partner.webhooks.path), lazy: page('partner', () => import('./routes/partner/webhooks')) },
             { path: '*', Component: NotFoundInPortal },
           ]),
@@ -86,6 +87,7 @@ export function createAppRouter(queryClient: QueryClient) {
           children: portalPages([
             { index: true, lazy: page(undefined, () => import('./routes/portal-home')) },
             { path: lab(paths.lab.offers.path), lazy: page('lab', () => import('./routes/lab/offers')) },
+            { path: lab(paths.lab.offer.path), lazy: page('lab', () => import('./routes/lab/offer')) },
             { path: lab(paths.lab.inbound.path), lazy: page('lab', () => import('./routes/lab/inbound')) },
             { path: lab(paths.lab.bench.path), lazy: page('lab', () => import('./routes/lab/bench')) },
             { path: lab(paths.lab.labProfile.path), lazy: page('lab', () => import('./routes/lab/lab-profile')) },

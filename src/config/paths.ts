@@ -44,12 +44,18 @@ export const paths = {
     earnings: fixed('/partner/earnings', 'payouts.manage'),
     staff: fixed('/partner/settings/staff', 'staff.read'),
     apiKeys: fixed('/partner/settings/api-keys', 'api-keys.manage'),
+    apiGuide: fixed('/partner/settings/api', 'api-keys.manage'),
     webhooks: fixed('/partner/settings/webhooks', 'webhooks.manage'),
   },
 
   lab: {
     root: fixed('/lab'),
     offers: fixed('/lab/offers', 'offers.respond'),
+    offer: {
+      path: '/lab/offers/:offerId',
+      getHref: (offerId: string) => `/lab/offers/${encodeURIComponent(offerId)}`,
+      permission: 'offers.respond',
+    } satisfies PathEntry<[offerId: string]>,
     inbound: fixed('/lab/inbound', 'inbound.read'),
     bench: fixed('/lab/bench', 'bench.work'),
     labProfile: fixed('/lab/profile', 'lab-profile.manage'),

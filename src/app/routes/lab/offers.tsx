@@ -1,14 +1,19 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getOffersQueryOptions } from '@/features/offers/api/get-offers';
+import { OffersTable } from '@/features/offers/components/offers-table';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  // A failure here is shown by the table itself, with a retry.
+  await queryClient.ensureQueryData(getOffersQueryOptions('pending')).catch(() => undefined);
+  return null;
+};
+
+export default function OffersPage() {
   return (
-    <PlaceholderPage
-      title="Offers"
-      description="Cases the network has offered to your lab, each with a deadline to accept or decline."
-      upcoming={[
-        'Open offers with the device, the skills it needs and the time left to answer.',
-        'Accept or decline with a reason; an offer nobody answers moves to the next lab by itself.',
-      ]}
-    />
+    <>
+      <PageHeader title="Offers" description="Cases the network has offered to your lab. Answer each before its deadline; an unanswered offer moves to the next lab by itself." />
+      <OffersTable />
+    </>
   );
 }

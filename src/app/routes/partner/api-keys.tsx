@@ -1,14 +1,30 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '@/components/layouts/page-header';
+import { TextLink } from '@/components/ui/link';
+import { paths } from '@/config/paths';
+import { getApiKeysQueryOptions } from '@/features/api-keys/api/get-api-keys';
+import { ApiKeyList } from '@/features/api-keys/components/api-key-list';
+import { CreateApiKeyDialog } from '@/features/api-keys/components/create-api-key-dialog';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  await queryClient.ensureQueryData(getApiKeysQueryOptions()).catch(() => undefined);
+  return null;
+};
+
+export default function ApiKeysPage() {
   return (
-    <PlaceholderPage
-      title="API keys"
-      description="Keys that let your ticketing system open referrals and read their status."
-      upcoming={[
-        'Your shop’s keys, when each was last used, and a way to create or revoke one.',
-        'A short guide to opening a referral from your own system.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="API keys"
+        description={
+          <>
+            Keys let your ticketing system open referrals and follow their status. Each key is shown once, when you create it. The{' '}
+            <TextLink to={paths.partner.apiGuide.getHref()}>API guide</TextLink> shows every request with examples.
+          </>
+        }
+        actions={<CreateApiKeyDialog />}
+      />
+      <ApiKeyList />
+    </>
   );
 }

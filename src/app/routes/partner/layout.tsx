@@ -12,6 +12,7 @@ export const partnerNav: NavEntry[] = [
     items: [
       { label: 'Staff', href: paths.partner.staff.getHref(), permission: paths.partner.staff.permission },
       { label: 'API keys', href: paths.partner.apiKeys.getHref(), permission: paths.partner.apiKeys.permission },
+      { label: 'API guide', href: paths.partner.apiGuide.getHref(), permission: paths.partner.apiGuide.permission },
       { label: 'Webhooks', href: paths.partner.webhooks.getHref(), permission: paths.partner.webhooks.permission },
     ],
   },

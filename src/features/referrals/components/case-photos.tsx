@@ -10,7 +10,7 @@ import { formatFileSize } from '@/lib/format';
 import { usePhotoUrl } from '../api/get-photo';
 import { PHOTO_MAX_BYTES, PHOTOS_PER_REFERRAL, photoContentTypes, photoProblems, useUploadPhotos } from '../api/upload-photos';
 
-type Photo = ReferralDto['photos'][number];
+type Photo = Pick<ReferralDto['photos'][number], 'id'>;
 
 function PhotoThumb({ photo, index }: { photo: Photo; index: number }) {
   const { url, isError } = usePhotoUrl(photo.id);
@@ -30,6 +30,18 @@ function PhotoThumb({ photo, index }: { photo: Photo; index: number }) {
   );
 }
 
+/** Condition photos as thumbnails that open full size; read-only. */
+export function PhotoGallery({ photos }: { photos: readonly Photo[] }) {
+  if (photos.length === 0) return <p className="text-sm text-ink-muted">No photos yet.</p>;
+  return (
+    <ul className="flex flex-wrap gap-3" aria-label="Condition photos">
+      {photos.map((photo, index) => (
+        <PhotoThumb key={photo.id} photo={photo} index={index} />
+      ))}
+    </ul>
+  );
+}
+
 /** The case's condition photos and, for the shop, a way to add more. */
 export function CasePhotos({ referral, canAdd }: { referral: ReferralDto; canAdd: boolean }) {
   const upload = useUploadPhotos();
@@ -41,15 +53,7 @@ export function CasePhotos({ referral, canAdd }: { referral: ReferralDto; canAdd
 
   return (
     <div className="flex flex-col gap-4">
-      {referral.photos.length === 0 ? (
-        <p className="text-sm text-ink-muted">No photos yet.</p>
-      ) : (
-        <ul className="flex flex-wrap gap-3" aria-label="Condition photos">
-          {referral.photos.map((photo, index) => (
-            <PhotoThumb key={photo.id} photo={photo} index={index} />
-          ))}
-        </ul>
-      )}
+      <PhotoGallery photos={referral.photos} />
       {canAdd && room > 0 ? (
         <Can permission="photos.upload">
           <form
