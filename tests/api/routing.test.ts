@@ -2,7 +2,7 @@ import request from 'supertest';
 import zipcodes from 'zipcodes';
 import { afterEach, describe, expect, it } from 'vitest';
 import { geodesicDistanceKm } from '@shared/domain/geo';
-import { labSummaryDto } from '@shared/schemas/labs';
+import { attentionListDto, labSummaryDto } from '@shared/schemas/labs';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
 import { Organization } from '../../server/organizations';
 import { setupApi, signIn, unique } from '../support/api';
@@ -244,6 +244,7 @@ describe('the network admin’s attention queue', () => {
     const wet = await makeLab({ skills: [{ skill: 'tape', turnaroundDays: 2 }, { skill: 'liquid_remediation', turnaroundDays: 2 }] });
     const queue = await request(app).get('/api/network/attention').set(auth(adminToken));
     expect(queue.status).toBe(200);
+    attentionListDto.parse(queue.body);
     const item = queue.body.data.find((i: { referral: { id: string } }) => i.referral.id === created.body.id);
     expect(item).toMatchObject({ attentionReason: created.body.attentionReason, requiredSkills: ['tape', 'liquid_remediation'], previousOffers: [] });
     expect(item.ranking.candidates[0].labId).toBe(wet.org.id);
