@@ -36,6 +36,13 @@ export const permissions = {
   'network.manage': ['network_admin'],
   'settlement.run': ['network_admin'],
   'audit.read': ['network_admin'],
+  // The case record: the custody log and the media disposition, shown to whoever may see the case
+  // (the shop, the lab holding it, the network); the server scopes each case.
+  'custody.read': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
+  // Returning or sanitizing the original media and failed parts, with the certificate of sanitization.
+  'disposition.record': ['lab_technician', 'lab_manager'],
+  // Each person's own e-mail choices (security messages cannot be turned off).
+  'notification-preferences.manage': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;
