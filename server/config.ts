@@ -1,3 +1,4 @@
+import { createPrivateKey } from 'node:crypto';
 import { z } from 'zod';
 
 // The one place that reads the environment. A bad value stops the process with a
@@ -64,6 +65,18 @@ const configSchema = z
     SETTLEMENT_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(8),
     /** Attempts at one payout before it waits for a person (retried with back-off in between). */
     PAYOUT_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(50).default(6),
+    /** Ed25519 private key (PEM, PKCS #8) that signs custody-log exports; development generates one at start. */
+    CUSTODY_SIGNING_KEY: z
+      .string()
+      .transform((v) => v.replace(/\\n/g, '\n').trim())
+      .refine((pem) => {
+        try {
+          return createPrivateKey(pem).asymmetricKeyType === 'ed25519';
+        } catch {
+          return false;
+        }
+      }, 'CUSTODY_SIGNING_KEY must be an Ed25519 private key in PEM form (openssl genpkey -algorithm ed25519)')
+      .optional(),
   })
   .transform((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.JWT_SECRET) {
@@ -71,6 +84,9 @@ const configSchema = z
     }
     for (const key of ['PAYMENTS_SECRET_KEY', 'PAYMENTS_WEBHOOK_SECRET'] as const) {
       if (env.NODE_ENV === 'production' && !env[key]) ctx.addIssue({ code: 'custom', path: [key], message: `${key} is required in production` });
+    }
+    if (env.NODE_ENV === 'production' && !env.CUSTODY_SIGNING_KEY) {
+      ctx.addIssue({ code: 'custom', path: ['CUSTODY_SIGNING_KEY'], message: 'CUSTODY_SIGNING_KEY is required in production' });
     }
     for (const name of ['SHIPPING_API_KEY', 'SHIPPING_WEBHOOK_SECRET'] as const) {
       if (env.NODE_ENV === 'production' && !env[name]) ctx.addIssue({ code: 'custom', path: [name], message: `${name} is required in production` });
@@ -118,6 +134,8 @@ const configSchema = z
       },
       settlementConcurrency: env.SETTLEMENT_CONCURRENCY,
       payoutMaxAttempts: env.PAYOUT_MAX_ATTEMPTS,
+      /** null outside production when unset: the custody component then signs with a key generated at start. */
+      custodySigningKey: env.CUSTODY_SIGNING_KEY ?? null,
     };
   });
 
