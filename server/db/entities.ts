@@ -9,6 +9,8 @@ import { CleanAirCertificate, LabOffer, LabProfile, RoutingSnapshot } from '../r
 import { ApiKey, IdempotencyRecord } from '../partner-api/entities';
 import { ReferralPhoto } from '../uploads/entities';
 import { WebhookAttempt, WebhookDelivery, WebhookEndpoint, WebhookEvent } from '../webhooks/entities';
+import { Shipment, ShipmentScan, ShippingWebhookEvent } from '../shipping/entities';
+import { CheckIn, CheckInPhoto, LabTransfer } from '../receiving/entities';
 
 export const entities = [
   Organization,
@@ -31,4 +33,10 @@ export const entities = [
   WebhookEvent,
   WebhookDelivery,
   WebhookAttempt,
+  Shipment,
+  ShipmentScan,
+  ShippingWebhookEvent,
+  CheckIn,
+  CheckInPhoto,
+  LabTransfer,
 ];

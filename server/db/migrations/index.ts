@@ -4,5 +4,6 @@ import { ReferralsAndRouting1764979200000 } from './1764979200000-referrals-and-
 import { PartnerApi1764892800000 } from './1764892800000-partner-api';
 import { ReferralPhotos1765065600000 } from './1765065600000-referral-photos';
 import { PartnerWebhooks1765152000000 } from './1765152000000-partner-webhooks';
+import { Shipping1765238400000 } from './1765238400000-shipping';
 
-export const migrations = [Foundation1764633600000, PartnerApi1764892800000, ReferralsAndRouting1764979200000, ReferralPhotos1765065600000, PartnerWebhooks1765152000000];
+export const migrations = [Foundation1764633600000, PartnerApi1764892800000, ReferralsAndRouting1764979200000, ReferralPhotos1765065600000, PartnerWebhooks1765152000000, Shipping1765238400000];
