@@ -16,6 +16,8 @@ import { routingRoutes } from './routing';
 import { apiKeyRoutes, partnerApiRoutes } from './partner-api';
 import { photoRoutes } from './uploads';
 import { webhookRoutes } from './webhooks';
+import { shippingPartnerApiRoutes, shippingRoutes, shippingWebhookRoutes } from './shipping';
+import { receivingRoutes } from './receiving';
 
 export interface AppDeps {
   config: Config;
@@ -60,6 +62,8 @@ export function createApp({ config, db }: AppDeps): Express {
   );
   // No CORS middleware: the API answers its own origin only (closed by default).
   app.use(cookieParser());
+  // The shipping service signs the bytes it sends: its webhook keeps the raw body.
+  app.use('/api/webhooks/shipping', express.raw({ type: () => true, limit: '1mb' }));
   app.use('/api', express.json({ limit: config.jsonBodyLimit }));
 
   const guard = createGuard(ctx);
@@ -78,8 +82,12 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use('/api', routingRoutes(ctx, guard));
   app.use('/api', apiKeyRoutes(ctx, guard));
   app.use('/api/v1', partnerApiRoutes(ctx));
+  app.use('/api/v1', shippingPartnerApiRoutes(ctx));
   app.use('/api', photoRoutes(ctx, guard));
   app.use('/api', webhookRoutes(ctx, guard));
+  app.use('/api', shippingWebhookRoutes(ctx));
+  app.use('/api', shippingRoutes(ctx, guard));
+  app.use('/api', receivingRoutes(ctx, guard));
   app.use('/api', notFoundHandler);
 
   // The built client, with the router's paths falling back to index.html.
