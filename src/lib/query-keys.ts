@@ -66,3 +66,9 @@ export const apiKeyKeys = {
 export const apiDocumentKeys = {
   all: ['api-document'] as const,
 };
+
+export const webhookKeys = {
+  all: ['webhooks'] as const,
+  lists: () => [...webhookKeys.all, 'list'] as const,
+  deliveries: (endpointId: string) => [...webhookKeys.all, 'deliveries', endpointId] as const,
+};

@@ -1,14 +1,23 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getWebhooksQueryOptions } from '@/features/webhooks/api/get-webhooks';
+import { CreateWebhookDialog } from '@/features/webhooks/components/create-webhook-dialog';
+import { WebhookList } from '@/features/webhooks/components/webhook-list';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  await queryClient.ensureQueryData(getWebhooksQueryOptions()).catch(() => undefined);
+  return null;
+};
+
+export default function WebhooksPage() {
   return (
-    <PlaceholderPage
-      title="Webhooks"
-      description="Addresses on your side that Platterpost notifies when a case changes."
-      upcoming={[
-        'Your endpoints, the events each one receives, and recent deliveries with their responses.',
-        'The signing secret for checking that a notification really came from Platterpost.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="Webhooks"
+        description="Addresses on your side that Platterpost notifies, signed, whenever one of your cases changes. Failed deliveries are retried for a day."
+        actions={<CreateWebhookDialog />}
+      />
+      <WebhookList />
+    </>
   );
 }
