@@ -4,6 +4,7 @@ import { reportError } from './lib/errors';
 import { createMailTransport, dispatchOutbox } from './notifications';
 import { startJobRelay, startQueue } from './jobs';
 import { registerRoutingJobs } from './routing';
+import { registerShippingJobs } from './shipping';
 import { dispatchWebhooks } from './webhooks';
 
 /** Which loops to run; all by default. Tests pick the one they exercise. */
@@ -48,6 +49,8 @@ export async function startWorkers(
   // pg-boss on the same PostgreSQL; jobs written in a transaction reach it through the job outbox relay.
   const boss = only.jobs ? await startQueue(config) : null;
   if (boss) await registerRoutingJobs({ config, db }, boss);
+  // Tracking reconcile and overdue boxes; registers our webhook URL with the shipping service.
+  if (boss) await registerShippingJobs({ config, db }, boss);
   const relay = boss ? startJobRelay(db, boss, (err) => reportError(err, { worker: 'job-relay' })) : null;
   return {
     async stop() {
