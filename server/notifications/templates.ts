@@ -229,6 +229,47 @@ export const emailTemplates = {
       note: 'Nothing is lost: the amount stays on your statement until it is paid, and it is never paid twice.',
     }),
   }),
+  // Shipping and receiving.
+  box_checked_in: (d: { name: string; reference: string; labName: string; customerName: string; url: string }) => ({
+    subject: `Box delivered and checked in at ${d.labName}: ${d.reference}`,
+    ...layout({
+      heading: `${d.reference} arrived at ${d.labName}`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `The box for ${d.customerName} (${d.reference}) was delivered and checked in at ${d.labName}: the box, its seal and its contents are in order.`,
+        'The lab evaluates the device next and sends a quote.',
+      ],
+      action: { label: 'Open the case', url: d.url },
+    }),
+  }),
+  case_on_hold: (d: { name: string; reference: string; labName: string; reason: string; url: string }) => ({
+    subject: `Case ${d.reference} is on hold at ${d.labName}`,
+    ...layout({
+      heading: `${d.reference} is on hold`,
+      paragraphs: [`Hello ${d.name},`, `${d.labName} checked the box in and put the case on hold. ${d.reason}`, 'The lab will contact you about what happens next.'],
+      action: { label: 'Open the case', url: d.url },
+    }),
+  }),
+  case_transfer: (d: { name: string; reference: string; fromLab: string; url: string }) => ({
+    subject: `Case ${d.reference} moves to another lab`,
+    ...layout({
+      heading: `${d.reference} moves to another lab`,
+      paragraphs: [
+        `Hello ${d.name},`,
+        `${d.fromLab} examined the device and cannot do the work. The case is offered to the next lab, and ${d.fromLab} ships the device there itself.`,
+        'Nothing needs doing on your side; no new label is needed.',
+      ],
+      action: { label: 'Open the case', url: d.url },
+    }),
+  }),
+  shipment_exception: (d: { name: string; reference: string; carrier: string; trackingCode: string; message: string; url: string }) => ({
+    subject: `Carrier exception for ${d.reference} (${d.trackingCode})`,
+    ...layout({
+      heading: `The carrier reported a problem with ${d.reference}`,
+      paragraphs: [`Hello ${d.name},`, `${d.carrier} reported for tracking ${d.trackingCode}: ${d.message}`, 'Usually the box moves on within a day; the case shows every scan.'],
+      action: { label: 'Open the case', url: d.url },
+    }),
+  }),
 } satisfies Record<string, (data: never) => RenderedEmail>;
 
 export type EmailTemplate = keyof typeof emailTemplates;
