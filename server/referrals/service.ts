@@ -279,6 +279,18 @@ async function loadParts(manager: EntityManager, referral: Referral) {
   return { snapshot, offers, timeline, labNames: new Map(labs.map((l) => [l.id, l.name])) };
 }
 
+/**
+ * The case's labels with their tracking state, read from the shipping component's table here (SQL, not an
+ * import) so that imports keep flowing one way: shipping builds on referrals.
+ */
+async function shipmentsOf(manager: EntityManager, referralId: string): Promise<ReferralDto['shipments']> {
+  const rows: { id: string; tracking_code: string | null; status: string }[] = await manager.query(
+    `SELECT id, tracking_code, status FROM shipments WHERE referral_id = $1 AND status <> 'awaiting_purchase' ORDER BY created_at`,
+    [referralId],
+  );
+  return rows.map((r) => ({ id: r.id, trackingCode: r.tracking_code, status: r.status }));
+}
+
 export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string): Promise<ReferralDto> {
   if (!UUID.test(id)) throw AppError.notFound('That case');
   const manager = ctx.db.manager;
@@ -288,14 +300,14 @@ export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id:
     relations: { partnerOrganization: true, labOrganization: true },
   });
   if (!referral) throw AppError.notFound('That case');
-  const [parts, photos] = await Promise.all([loadParts(manager, referral), listReferralPhotos(manager, referral.id)]);
+  const [parts, photos, shipments] = await Promise.all([loadParts(manager, referral), listReferralPhotos(manager, referral.id), shipmentsOf(manager, referral.id)]);
   const dto = toReferralDto({
     referral,
     partnerName: referral.partnerOrganization?.name ?? '',
     labName: referral.labOrganization?.name ?? null,
     ...parts,
   });
-  return { ...dto, photos: photos.map((p) => ({ id: p.id, url: p.url, contentType: p.contentType, sizeBytes: p.sizeBytes })) };
+  return { ...dto, photos: photos.map((p) => ({ id: p.id, url: p.url, contentType: p.contentType, sizeBytes: p.sizeBytes })), shipments };
 }
 
 const CURSOR = /^(\d{1,20})\.([0-9a-f-]{36})$/;
