@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatCount, formatDate, formatDateTime, formatDays, formatDistance, formatFileSize, formatMoney, formatTimeLeft } from './format';
+import { formatBusinessDays, formatCount, formatDate, formatDateTime, formatDays, formatDistance, formatFileSize, formatMoney, formatTimeLeft } from './format';
 
 describe('format', () => {
   it('writes dates in the US style, in the given time zone', () => {
@@ -29,6 +29,8 @@ describe('format', () => {
   it('writes days with at most one decimal, and the singular for exactly one', () => {
     expect(formatDays(1)).toBe('1 day');
     expect(formatDays(6.54)).toBe('6.5 days');
+    expect(formatBusinessDays(1)).toBe('1 business day');
+    expect(formatBusinessDays(6)).toBe('6 business days');
   });
 
   it('writes file sizes in 1 024s as file managers show them', () => {

@@ -76,3 +76,8 @@ export function formatTimeLeft(milliseconds: number): string {
   if (hours > 0) return `${hours} h${mins ? ` ${mins} min` : ''} left`;
   return `${mins} min left`;
 }
+
+/** "6 business days", "1 business day": routing's estimates count the lab's working days. */
+export function formatBusinessDays(days: number): string {
+  return formatDays(days).replace(/days?$/, (word) => `business ${word}`);
+}

@@ -43,7 +43,8 @@ export function Dialog({ open, onClose, title, description, children, footer, cl
         if (event.target === ref.current) onClose();
       }}
       className={cn(
-        'm-auto w-[min(32rem,calc(100vw-2rem))] rounded-panel border border-ink-hairline bg-paper-raised p-0 text-ink shadow-lift',
+        // text-left: a dialog opened from a right-aligned table cell must not inherit its alignment.
+        'm-auto w-[min(32rem,calc(100vw-2rem))] rounded-panel border border-ink-hairline bg-paper-raised p-0 text-left text-ink shadow-lift',
         'backdrop:bg-ink-strong/50',
         className,
       )}

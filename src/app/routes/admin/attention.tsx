@@ -1,14 +1,21 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getAttentionQueryOptions } from '@/features/network/api/get-attention';
+import { AttentionQueue } from '@/features/network/components/attention-queue';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  await queryClient.ensureQueryData(getAttentionQueryOptions()).catch(() => undefined);
+  return null;
+};
+
+export default function AttentionPage() {
   return (
-    <PlaceholderPage
-      title="Needs attention"
-      description="Cases that no lab can take or that are stuck, and need a person to decide."
-      upcoming={[
-        'Cases with no matching lab, and the reasons each lab was left out.',
-        'Boxes on hold, disputes raised by a shop or a customer, and overdue returns.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="Needs attention"
+        description="Cases no lab has taken: none qualified, every lab declined, or offers ran out of time. Each shows why, and the labs that would rank for it now."
+      />
+      <AttentionQueue />
+    </>
   );
 }

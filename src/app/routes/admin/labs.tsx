@@ -1,14 +1,19 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import type { LoaderFunctionArgs } from 'react-router';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getLabsQueryOptions } from '@/features/network/api/get-labs';
+import { LabsOverview, skillFrom } from '@/features/network/components/labs-overview';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
+  await queryClient.ensureQueryData(getLabsQueryOptions(skillFrom(new URL(request.url).searchParams))).catch(() => undefined);
+  return null;
+};
+
+export default function LabsPage() {
   return (
-    <PlaceholderPage
-      title="Labs"
-      description="Recovery labs in the network: their skills, certificates and queues."
-      upcoming={[
-        'Every lab with its status, clean-air class and certificate dates.',
-        'Onboarding a new lab and pausing one that cannot take work.',
-      ]}
-    />
+    <>
+      <PageHeader title="Labs" description="Recovery labs in the network: where they are, what they can do, their clean-air class and how full their queues are." />
+      <LabsOverview />
+    </>
   );
 }

@@ -8,7 +8,7 @@ import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { toast } from '@/components/ui/toast';
 import { isApiError } from '@/lib/api-client';
-import { formatDateTime, formatDays, formatDistance } from '@/lib/format';
+import { formatBusinessDays, formatDateTime, formatDistance } from '@/lib/format';
 import { CautionList, PhotoGallery, interfaceLabels } from '@/features/referrals';
 import { useAcceptOffer } from '../api/accept-offer';
 import { DeadlineCountdown } from './deadline-countdown';
@@ -158,7 +158,7 @@ export function OfferDetail({ offer }: { offer: LabOfferDto }) {
               items={[
                 ['Rank', offer.rank !== null ? `${offer.rank}` : '—'],
                 ['Distance from the shop', offer.distanceKm !== null ? formatDistance(offer.distanceKm) : '—'],
-                ['Estimate', offer.estimatedDays !== null ? `${formatDays(offer.estimatedDays).replace("day", "business day")} until data` : '—'],
+                ['Estimate', offer.estimatedDays !== null ? `${formatBusinessDays(offer.estimatedDays)} until data` : '—'],
                 ['Offered', formatDateTime(offer.offeredAt)],
               ]}
             />

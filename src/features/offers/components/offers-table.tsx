@@ -7,7 +7,7 @@ import { Select } from '@/components/ui/select';
 import { Spinner } from '@/components/ui/spinner';
 import { Table, type TableColumn } from '@/components/ui/table';
 import { paths } from '@/config/paths';
-import { formatDateTime, formatDays, formatDistance } from '@/lib/format';
+import { formatBusinessDays, formatDateTime, formatDistance } from '@/lib/format';
 import { useOffers, type OfferStatusFilter } from '../api/get-offers';
 import { DeadlineCountdown } from './deadline-countdown';
 import { OfferStatusBadge } from './offer-status-badge';
@@ -57,7 +57,7 @@ const columns: TableColumn<LabOfferDto>[] = [
   },
   {
     header: 'Estimate',
-    cell: (offer) => (offer.estimatedDays !== null ? `${formatDays(offer.estimatedDays).replace("day", "business day")} to data` : '—'),
+    cell: (offer) => (offer.estimatedDays !== null ? `${formatBusinessDays(offer.estimatedDays)} to data` : '—'),
     className: 'whitespace-nowrap',
   },
 ];

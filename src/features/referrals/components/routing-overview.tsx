@@ -2,7 +2,7 @@ import { useId } from 'react';
 import type { CandidateDto, ExcludedDto, RoutingDto } from '@shared/schemas/referrals';
 import { PlaceMap, type MapLine, type MapMarker } from '@/components/map/map';
 import { Badge } from '@/components/ui/badge';
-import { formatDays, formatDistance, formatMiles } from '@/lib/format';
+import { formatBusinessDays, formatDays, formatDistance, formatMiles } from '@/lib/format';
 
 export interface RoutingOverviewProps {
   routing: Pick<RoutingDto, 'origin' | 'candidates' | 'excluded'> & { offeredTo?: RoutingDto['offeredTo'] };
@@ -18,7 +18,7 @@ export interface RoutingOverviewProps {
 }
 
 function estimateLine(candidate: CandidateDto): string {
-  return `About ${formatDays(candidate.estimatedDays).replace('day', 'business day')} until data`;
+  return `About ${formatBusinessDays(candidate.estimatedDays)} until data`;
 }
 
 /** Transit, queue and work, which add up to the estimate. */
