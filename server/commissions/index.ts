@@ -1,0 +1,3 @@
+export { CommissionPlan, PartnerCommissionPlan } from './entities';
+export { commissionRoutes } from './routes';
+export { planFor, plansForPartners, listPlans, getPlan, createPlan, updatePlan, archivePlan, assignPlan } from './service';
