@@ -11,6 +11,7 @@ import { referralDto, referralInput, referralListDto, referralListQuery, routing
 import { caseStatuses } from '@shared/vocabulary';
 import type { Config } from '../config';
 import * as ex from './openapi-examples';
+import { registerWebhookEvents } from '../webhooks/openapi';
 
 // The partner API's OpenAPI 3.1 document, generated from the same zod schemas the routes parse
 // with. Schemas get their component names through zod's own .meta({ id }), which the generator
@@ -243,6 +244,7 @@ export function openApiDocument(config: Pick<Config, 'appUrl'>) {
     description: 'A partner API key, created by a shop admin under Settings → API keys. It is shown once; keep it secret.',
   });
   for (const route of partnerApiPaths) registry.registerPath(route);
+  registerWebhookEvents(registry);
   const doc = new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
     info: {
@@ -259,6 +261,7 @@ export function openApiDocument(config: Pick<Config, 'appUrl'>) {
       { name: 'Referrals', description: 'Cases opened by your shop' },
       { name: 'Routing', description: 'Triage and lab ranking without a case' },
       { name: 'Meta', description: 'About the API itself' },
+      { name: 'Webhooks', description: 'Signed events sent to your endpoints as your cases change' },
     ],
   });
   cached = { url: config.appUrl, doc };

@@ -189,3 +189,13 @@ describe('partner events from the case timeline', () => {
     expect(payload.data.referral.id).toBe(created.id);
   });
 });
+
+describe('event payloads in the OpenAPI document', () => {
+  it('describes every partner event under webhooks', async () => {
+    const { partnerEventTypes } = await import('@shared/schemas/webhooks');
+    const res = await request(app).get('/api/v1/openapi.json');
+    expect(res.status).toBe(200);
+    expect(Object.keys(res.body.webhooks).sort()).toEqual([...partnerEventTypes].sort());
+    expect(res.body.webhooks['referral.created'].post.requestBody.content['application/json'].schema).toBeDefined();
+  });
+});
