@@ -15,6 +15,9 @@ import { referralRoutes } from './referrals';
 import { routingRoutes } from './routing';
 import { apiKeyRoutes, partnerApiRoutes } from './partner-api';
 import { photoRoutes } from './uploads';
+import { commissionRoutes } from './commissions';
+import { ledgerRoutes } from './ledger';
+import { paymentWebhookRoutes, payoutRoutes } from './payouts';
 import { webhookRoutes } from './webhooks';
 import { shippingPartnerApiRoutes, shippingRoutes, shippingWebhookRoutes } from './shipping';
 import { receivingRoutes } from './receiving';
@@ -64,6 +67,8 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use(cookieParser());
   // The shipping service signs the bytes it sends: its webhook keeps the raw body.
   app.use('/api/webhooks/shipping', express.raw({ type: () => true, limit: '1mb' }));
+  // The payment provider signs the exact bytes it sends: its webhook reads the raw body, before the JSON parser.
+  app.use('/api', paymentWebhookRoutes(ctx));
   app.use('/api', express.json({ limit: config.jsonBodyLimit }));
 
   const guard = createGuard(ctx);
@@ -88,6 +93,9 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use('/api', shippingWebhookRoutes(ctx));
   app.use('/api', shippingRoutes(ctx, guard));
   app.use('/api', receivingRoutes(ctx, guard));
+  app.use('/api', commissionRoutes(ctx, guard));
+  app.use('/api', ledgerRoutes(ctx, guard));
+  app.use('/api', payoutRoutes(ctx, guard));
   app.use('/api', notFoundHandler);
 
   // The built client, with the router's paths falling back to index.html.

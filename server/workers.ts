@@ -4,6 +4,7 @@ import { reportError } from './lib/errors';
 import { createMailTransport, dispatchOutbox } from './notifications';
 import { startJobRelay, startQueue } from './jobs';
 import { registerRoutingJobs } from './routing';
+import { registerPayoutJobs } from './payouts';
 import { registerShippingJobs } from './shipping';
 import { dispatchWebhooks } from './webhooks';
 
@@ -49,6 +50,8 @@ export async function startWorkers(
   // pg-boss on the same PostgreSQL; jobs written in a transaction reach it through the job outbox relay.
   const boss = only.jobs ? await startQueue(config) : null;
   if (boss) await registerRoutingJobs({ config, db }, boss);
+  // The monthly settlement on the 1st, payout retries with back-off and the payout sweep.
+  if (boss) await registerPayoutJobs({ config, db }, boss);
   // Tracking reconcile and overdue boxes; registers our webhook URL with the shipping service.
   if (boss) await registerShippingJobs({ config, db }, boss);
   const relay = boss ? startJobRelay(db, boss, (err) => reportError(err, { worker: 'job-relay' })) : null;

@@ -8,6 +8,9 @@ import { Referral, TimelineEntry } from '../referrals/entities';
 import { CleanAirCertificate, LabOffer, LabProfile, RoutingSnapshot } from '../routing/entities';
 import { ApiKey, IdempotencyRecord } from '../partner-api/entities';
 import { ReferralPhoto } from '../uploads/entities';
+import { EarningLine, LedgerAccount, LedgerEntry, LedgerTransaction } from '../ledger/entities';
+import { CommissionPlan, PartnerCommissionPlan } from '../commissions/entities';
+import { PaymentWebhookEvent, PayoutAccount, SettlementRun, Statement } from '../payouts/entities';
 import { WebhookAttempt, WebhookDelivery, WebhookEndpoint, WebhookEvent } from '../webhooks/entities';
 import { Shipment, ShipmentScan, ShippingWebhookEvent } from '../shipping/entities';
 import { CheckIn, CheckInPhoto, LabTransfer } from '../receiving/entities';
@@ -39,4 +42,14 @@ export const entities = [
   CheckIn,
   CheckInPhoto,
   LabTransfer,
+  LedgerAccount,
+  LedgerTransaction,
+  LedgerEntry,
+  EarningLine,
+  CommissionPlan,
+  PartnerCommissionPlan,
+  PayoutAccount,
+  SettlementRun,
+  Statement,
+  PaymentWebhookEvent,
 ];
