@@ -39,6 +39,8 @@ export const permissions = {
   // The case record: the custody log and the media disposition, shown to whoever may see the case
   // (the shop, the lab holding it, the network); the server scopes each case.
   'custody.read': ['partner_admin', 'partner_staff', 'shipping_clerk', 'lab_technician', 'lab_manager', 'network_admin'],
+  // Handling inside the lab that no system sees (to the clean bench, imaged), written to the custody log by hand.
+  'custody.append': ['shipping_clerk', 'lab_technician', 'lab_manager'],
   // Returning or sanitizing the original media and failed parts, with the certificate of sanitization.
   'disposition.record': ['lab_technician', 'lab_manager'],
   // Each person's own e-mail choices (security messages cannot be turned off).
