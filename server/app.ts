@@ -19,6 +19,8 @@ import { commissionRoutes } from './commissions';
 import { ledgerRoutes } from './ledger';
 import { paymentWebhookRoutes, payoutRoutes } from './payouts';
 import { webhookRoutes } from './webhooks';
+import { customerLinkRoutes, redactCustomerToken } from './customer-link';
+import { customerRoutes, labWorkRoutes } from './lab-work';
 import { shippingPartnerApiRoutes, shippingRoutes, shippingWebhookRoutes } from './shipping';
 import { receivingRoutes } from './receiving';
 
@@ -49,6 +51,8 @@ export function createApp({ config, db }: AppDeps): Express {
       genReqId: (_req, res) => String(res.getHeader('X-Request-Id')),
       autoLogging: { ignore: (req) => req.url === '/api/health' },
       quietReqLogger: true,
+      // The customer's private page carries its token in the path; the log keeps the path without it.
+      serializers: { req: (req: { url: string }) => ({ ...req, url: redactCustomerToken(req.url) }) },
     }),
   );
   app.use(
@@ -90,6 +94,9 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use('/api/v1', shippingPartnerApiRoutes(ctx));
   app.use('/api', photoRoutes(ctx, guard));
   app.use('/api', webhookRoutes(ctx, guard));
+  app.use('/api', labWorkRoutes(ctx, guard));
+  app.use('/api', customerLinkRoutes(ctx, guard));
+  app.use('/api', customerRoutes(ctx));
   app.use('/api', shippingWebhookRoutes(ctx));
   app.use('/api', shippingRoutes(ctx, guard));
   app.use('/api', receivingRoutes(ctx, guard));

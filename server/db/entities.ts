@@ -12,6 +12,8 @@ import { EarningLine, LedgerAccount, LedgerEntry, LedgerTransaction } from '../l
 import { CommissionPlan, PartnerCommissionPlan } from '../commissions/entities';
 import { PaymentWebhookEvent, PayoutAccount, SettlementRun, Statement } from '../payouts/entities';
 import { WebhookAttempt, WebhookDelivery, WebhookEndpoint, WebhookEvent } from '../webhooks/entities';
+import { CustomerCheckout, CustomerReturnAddress, ImagingReport, LabEvaluation, LabQuote, RecoveredFileManifest } from '../lab-work/entities';
+import { CustomerLink } from '../customer-link/entities';
 import { Shipment, ShipmentScan, ShippingWebhookEvent } from '../shipping/entities';
 import { CheckIn, CheckInPhoto, LabTransfer } from '../receiving/entities';
 
@@ -36,6 +38,13 @@ export const entities = [
   WebhookEvent,
   WebhookDelivery,
   WebhookAttempt,
+  LabEvaluation,
+  LabQuote,
+  ImagingReport,
+  RecoveredFileManifest,
+  CustomerCheckout,
+  CustomerReturnAddress,
+  CustomerLink,
   Shipment,
   ShipmentScan,
   ShippingWebhookEvent,
