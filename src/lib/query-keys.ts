@@ -67,6 +67,23 @@ export const apiDocumentKeys = {
   all: ['api-document'] as const,
 };
 
+/** Labels and tracking of one case (the shop's Ship section) and single shipments. */
+export const shipmentKeys = {
+  all: ['shipments'] as const,
+  caseShipping: (referralId: string) => [...shipmentKeys.all, 'case', referralId] as const,
+  detail: (id: string) => [...shipmentKeys.all, 'detail', id] as const,
+};
+
+export type InboundBoardFilters = { bucket?: string; q?: string };
+
+/** The lab's boxes: the inbound board, a box looked up for check-in, and outgoing returns and transfers. */
+export const inboundKeys = {
+  all: ['inbound'] as const,
+  board: (filters: InboundBoardFilters = {}) => [...inboundKeys.all, 'board', filters] as const,
+  lookup: (code: string) => [...inboundKeys.all, 'lookup', code] as const,
+  outbound: () => [...inboundKeys.all, 'outbound'] as const,
+};
+
 export const webhookKeys = {
   all: ['webhooks'] as const,
   lists: () => [...webhookKeys.all, 'list'] as const,
