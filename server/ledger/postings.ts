@@ -1,4 +1,4 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import type { EntityManager } from 'typeorm';
 import { normaliseCurrency } from '@shared/domain/money';
 import { AppError } from '../lib/errors';
 import { ledgerAccountKinds, type LedgerAccountKind, type LedgerTransactionKind } from './entities';
@@ -17,28 +17,16 @@ export interface AccountRef {
   organizationId?: string | null;
 }
 
-// Ids of accounts known to be committed (seen by a SELECT without inserting), per database: safe to reuse
-// in any later transaction, since accounts are never removed.
-const committedAccounts = new WeakMap<DataSource, Map<string, string>>();
-
 /** The account's id, opening it on first use. */
 export async function accountId(manager: EntityManager, ref: AccountRef, currency: string): Promise<string> {
   if (!ledgerAccountKinds.includes(ref.kind)) throw new Error(`unknown ledger account kind "${ref.kind}"`);
   const org = PER_ORGANIZATION.has(ref.kind) ? (ref.organizationId ?? null) : null;
   if (PER_ORGANIZATION.has(ref.kind) && !org) throw new Error(`a ${ref.kind} account belongs to an organisation`);
-  const key = `${ref.kind}|${org ?? ''}|${currency}`;
-  let cache = committedAccounts.get(manager.connection);
-  if (!cache) committedAccounts.set(manager.connection, (cache = new Map()));
-  const known = cache.get(key);
-  if (known) return known;
   const existing: { id: string }[] = await manager.query(
     `SELECT id FROM ledger_accounts WHERE kind = $1 AND organization_id IS NOT DISTINCT FROM $2 AND currency = $3`,
     [ref.kind, org, currency],
   );
-  if (existing[0]) {
-    cache.set(key, existing[0].id);
-    return existing[0].id;
-  }
+  if (existing[0]) return existing[0].id;
   const inserted: { id: string }[] = await manager.query(
     `INSERT INTO ledger_accounts (kind, organization_id, currency) VALUES ($1, $2, $3)
      ON CONFLICT ON CONSTRAINT ledger_accounts_unique DO NOTHING RETURNING id`,

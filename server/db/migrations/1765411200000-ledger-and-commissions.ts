@@ -50,7 +50,8 @@ export class LedgerAndCommissions1765411200000 implements MigrationInterface {
     await q.query(`
       CREATE FUNCTION ledger_transaction_must_balance() RETURNS trigger LANGUAGE plpgsql AS $$
       DECLARE
-        tx_id uuid := CASE WHEN TG_TABLE_NAME = 'ledger_entries' THEN NEW.transaction_id ELSE NEW.id END;
+        -- The column holding the transaction's id is the trigger's argument (transaction_id or id).
+        tx_id uuid := (to_jsonb(NEW) ->> TG_ARGV[0])::uuid;
         tx_currency char(3);
         total numeric;
         entry_count integer;
@@ -76,10 +77,10 @@ export class LedgerAndCommissions1765411200000 implements MigrationInterface {
       END $$`);
     await q.query(`
       CREATE CONSTRAINT TRIGGER ledger_entries_balance AFTER INSERT ON ledger_entries
-        DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION ledger_transaction_must_balance()`);
+        DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION ledger_transaction_must_balance('transaction_id')`);
     await q.query(`
       CREATE CONSTRAINT TRIGGER ledger_transactions_balance AFTER INSERT ON ledger_transactions
-        DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION ledger_transaction_must_balance()`);
+        DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION ledger_transaction_must_balance('id')`);
     // Append-only: a mistake is corrected by a reversing transaction, never by editing history.
     await q.query(`
       CREATE FUNCTION ledger_is_append_only() RETURNS trigger LANGUAGE plpgsql AS $$
