@@ -159,8 +159,14 @@ describe('idempotency (Idempotency-Key on POST)', () => {
     // What a process that died mid-request leaves behind: an unfinished record with the request's hash.
     const release = h.hold();
     const first = request(h.app).post('/work').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'crashed').send({ a: 1 }).then((r) => r);
-    for (let i = 0; i < 200 && h.runs() === 0; i++) await new Promise((r) => setImmediate(r));
-    await db.query(`UPDATE idempotency_records SET lease_until = now() - interval '1 second' WHERE api_key_id = $1`, [shop.keyId]);
+    // Wait until the first request's unfinished record exists, then let its lease run out.
+    let expired = 0;
+    for (let i = 0; i < 400 && expired === 0; i++) {
+      const [, count] = (await db.query(`UPDATE idempotency_records SET lease_until = now() - interval '1 second' WHERE api_key_id = $1`, [shop.keyId])) as [unknown, number];
+      expired = count;
+      if (!expired) await new Promise((r) => setTimeout(r, 10));
+    }
+    expect(expired).toBe(1);
 
     const retry = await request(h.app).post('/work').set('Authorization', `Bearer ${shop.key}`).set('Idempotency-Key', 'crashed').send({ a: 1 });
     release();
