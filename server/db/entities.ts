@@ -16,6 +16,8 @@ import { CustomerCheckout, CustomerReturnAddress, ImagingReport, LabEvaluation, 
 import { CustomerLink } from '../customer-link/entities';
 import { Shipment, ShipmentScan, ShippingWebhookEvent } from '../shipping/entities';
 import { CheckIn, CheckInPhoto, LabTransfer } from '../receiving/entities';
+import { CustodyEntryRow, CustodyHead } from '../custody/entities';
+import { MediaDisposition, SanitizationCertificate } from '../disposition/entities';
 
 export const entities = [
   Organization,
@@ -61,4 +63,8 @@ export const entities = [
   SettlementRun,
   Statement,
   PaymentWebhookEvent,
+  CustodyEntryRow,
+  CustodyHead,
+  MediaDisposition,
+  SanitizationCertificate,
 ];
