@@ -1,2 +1,3 @@
 export { AuditEvent } from './entities';
 export { recordAudit, type AuditInput } from './service';
+export { auditRoutes } from './routes';
