@@ -23,6 +23,10 @@ import { customerLinkRoutes, redactCustomerToken } from './customer-link';
 import { customerRoutes, labWorkRoutes } from './lab-work';
 import { shippingPartnerApiRoutes, shippingRoutes, shippingWebhookRoutes } from './shipping';
 import { receivingRoutes } from './receiving';
+import { auditRoutes } from './audit';
+import { custodyRoutes } from './custody';
+import { dispositionRoutes } from './disposition';
+import { notificationPreferenceRoutes } from './notifications';
 
 export interface AppDeps {
   config: Config;
@@ -103,6 +107,10 @@ export function createApp({ config, db }: AppDeps): Express {
   app.use('/api', commissionRoutes(ctx, guard));
   app.use('/api', ledgerRoutes(ctx, guard));
   app.use('/api', payoutRoutes(ctx, guard));
+  app.use('/api', custodyRoutes(ctx, guard));
+  app.use('/api', dispositionRoutes(ctx, guard));
+  app.use('/api', auditRoutes(ctx, guard));
+  app.use('/api', notificationPreferenceRoutes(ctx, guard));
   app.use('/api', notFoundHandler);
 
   // The built client, with the router's paths falling back to index.html.
