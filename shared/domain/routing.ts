@@ -153,6 +153,7 @@ function classifyOnce(certificate: NonNullable<RoutingLab['cleanAirCertificate']
 
 
 const failureTextCache = new WeakMap<object, string>();
+const classReasonCache = new WeakMap<object, ExclusionReason>();
 function classFailureText(certificate: NonNullable<RoutingLab['cleanAirCertificate']>): string {
   let text = failureTextCache.get(certificate);
   if (text === undefined) {
@@ -223,8 +224,12 @@ function checkCleanAir(
   const { isoClass } = classification;
   if (isoClass === null || isoClass > MECHANICAL_WORK_MAX_ISO_CLASS) {
     const measured = isoClass === null ? 'demonstrates no ISO class' : `measures ISO class ${isoClass}`;
-    const why = classFailureText(certificate);
-    return { ok: false, reason: { code: 'clean_air_class', message: `The clean-air certificate of ${certificate.testedOn} ${measured}; head swaps and platter work need ${needed}. ${why}`.trim() } };
+    let reason = classReasonCache.get(certificate);
+    if (!reason) {
+      reason = { code: 'clean_air_class', message: `The clean-air certificate of ${certificate.testedOn} ${measured}; head swaps and platter work need ${needed}. ${classFailureText(certificate)}`.trim() };
+      classReasonCache.set(certificate, reason);
+    }
+    return { ok: false, reason };
   }
   const today = zones.todayIn(lab.timeZone) as string;
   const currentUntil = zones.dueDate(certificate.testedOn, isoClass);
