@@ -291,6 +291,30 @@ async function shipmentsOf(manager: EntityManager, referralId: string): Promise<
   return rows.map((r) => ({ id: r.id, trackingCode: r.tracking_code, status: r.status }));
 }
 
+/**
+ * What the customer was quoted and has paid, read from the lab-work tables here (SQL, not an import) for
+ * the same reason: lab work builds on referrals. Null until the lab has sent a quote.
+ */
+async function amountsOf(manager: EntityManager, referralId: string): Promise<ReferralDto['amounts']> {
+  const rows: { currency: string; status: 'sent' | 'approved' | 'declined'; total_minor: string; service_lines_minor: string; paid_minor: string | null; paid_at: Date | null }[] =
+    await manager.query(
+      `SELECT q.currency, q.status, q.total_minor, q.service_lines_minor, c.amount_minor AS paid_minor, c.paid_at
+       FROM lab_quotes q LEFT JOIN customer_checkouts c ON c.referral_id = q.referral_id AND c.status = 'paid'
+       WHERE q.referral_id = $1 AND q.status IN ('sent', 'approved', 'declined') ORDER BY q.version DESC LIMIT 1`,
+      [referralId],
+    );
+  const q = rows[0];
+  if (!q) return null;
+  return {
+    currency: q.currency,
+    quoteStatus: q.status,
+    quotedTotalMinor: Number(q.total_minor),
+    serviceLinesMinor: Number(q.service_lines_minor),
+    paidMinor: q.paid_minor === null ? null : Number(q.paid_minor),
+    paidAt: q.paid_at?.toISOString() ?? null,
+  };
+}
+
 export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string): Promise<ReferralDto> {
   if (!UUID.test(id)) throw AppError.notFound('That case');
   const manager = ctx.db.manager;
@@ -300,14 +324,19 @@ export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id:
     relations: { partnerOrganization: true, labOrganization: true },
   });
   if (!referral) throw AppError.notFound('That case');
-  const [parts, photos, shipments] = await Promise.all([loadParts(manager, referral), listReferralPhotos(manager, referral.id), shipmentsOf(manager, referral.id)]);
+  const [parts, photos, shipments, amounts] = await Promise.all([
+    loadParts(manager, referral),
+    listReferralPhotos(manager, referral.id),
+    shipmentsOf(manager, referral.id),
+    amountsOf(manager, referral.id),
+  ]);
   const dto = toReferralDto({
     referral,
     partnerName: referral.partnerOrganization?.name ?? '',
     labName: referral.labOrganization?.name ?? null,
     ...parts,
   });
-  return { ...dto, photos: photos.map((p) => ({ id: p.id, url: p.url, contentType: p.contentType, sizeBytes: p.sizeBytes })), shipments };
+  return { ...dto, photos: photos.map((p) => ({ id: p.id, url: p.url, contentType: p.contentType, sizeBytes: p.sizeBytes })), shipments, amounts };
 }
 
 const CURSOR = /^(\d{1,20})\.([0-9a-f-]{36})$/;
