@@ -2,8 +2,6 @@ import { registerPaymentHandlers } from './checkout';
 
 export { LabEvaluation, LabQuote, ImagingReport, RecoveredFileManifest, CustomerCheckout, CustomerReturnAddress } from './entities';
 export { labWorkRoutes, customerRoutes } from './routes';
-// For referrals: what the customer was quoted and has paid, on every reader's view of a case.
-export { caseAmounts } from './views';
 export { applyPayment, recordPayment, type PaymentOutcome, type ProviderPayment } from './checkout';
 export { recordEvaluation, startEvaluation } from './evaluation';
 export { sendQuote, approveQuote, declineQuote } from './quotes';

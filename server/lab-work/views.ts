@@ -1,5 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
-import type { CaseAmountsDto, TimelineEntryDto } from '@shared/schemas/referrals';
+import type { TimelineEntryDto } from '@shared/schemas/referrals';
 import { benchQuery, benchStatuses, type BenchRowDto, type LabCaseDto, type PaymentDto, type ReturnAddressDto, type ShopLabWorkDto } from '@shared/schemas/lab-work';
 import { mediaTypeLabels } from '@shared/vocabulary';
 import { AppError } from '../lib/errors';
@@ -48,21 +48,6 @@ export function toReturnAddressDto(a: CustomerReturnAddress): ReturnAddressDto {
     country: a.country,
     phone: a.phone,
     updatedAt: a.updatedAt.toISOString(),
-  };
-}
-
-/** For referralDto.amounts: the current quote and what has been paid; null before any quote. */
-export async function caseAmounts(manager: EntityManager, referralId: string): Promise<CaseAmountsDto | null> {
-  const quote = await currentQuote(manager, referralId);
-  if (!quote) return null;
-  const payment = await paymentOf(manager, referralId);
-  return {
-    currency: quote.currency,
-    quoteStatus: quote.status === 'superseded' ? 'sent' : quote.status,
-    quotedTotalMinor: quote.totalMinor,
-    serviceLinesMinor: quote.serviceLinesMinor,
-    paidMinor: payment.amountMinor,
-    paidAt: payment.paidAt,
   };
 }
 
