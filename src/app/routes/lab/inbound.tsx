@@ -1,14 +1,32 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { Link } from 'react-router';
+import { PageHeader } from '@/components/layouts/page-header';
+import { buttonClasses } from '@/components/ui/button';
+import { paths } from '@/config/paths';
+import { Can } from '@/lib/auth';
+import { getInboundBoardQueryOptions } from '@/features/receiving/api/get-inbound-board';
+import { InboundBoard } from '@/features/receiving/components/inbound-board';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  await queryClient.ensureQueryData(getInboundBoardQueryOptions({ q: '' })).catch(() => undefined);
+  return null;
+};
+
+export default function InboundPage() {
   return (
-    <PlaceholderPage
-      title="Inbound boxes"
-      description="Boxes on their way to your lab, by tracking status, and the check-in for each arrival."
-      upcoming={[
-        'Every expected box with its carrier status and estimated arrival.',
-        'Check-in on arrival: condition, seal and photos, with a hold when a box or battery is damaged.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="Inbound boxes"
+        description="Every box on its way to your lab, by tracking status. Delivered boxes wait here until they are checked in."
+        actions={
+          <Can permission="inbound.check-in">
+            <Link to={paths.lab.checkIn.getHref()} className={buttonClasses()}>
+              Check in a box
+            </Link>
+          </Can>
+        }
+      />
+      <InboundBoard />
+    </>
   );
 }
