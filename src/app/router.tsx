@@ -89,6 +89,8 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: lab(paths.lab.offers.path), lazy: page('lab', () => import('./routes/lab/offers')) },
             { path: lab(paths.lab.offer.path), lazy: page('lab', () => import('./routes/lab/offer')) },
             { path: lab(paths.lab.inbound.path), lazy: page('lab', () => import('./routes/lab/inbound')) },
+            { path: lab(paths.lab.checkIn.path), lazy: page('lab', () => import('./routes/lab/check-in')) },
+            { path: lab(paths.lab.outbound.path), lazy: page('lab', () => import('./routes/lab/outbound')) },
             { path: lab(paths.lab.bench.path), lazy: page('lab', () => import('./routes/lab/bench')) },
             { path: lab(paths.lab.labProfile.path), lazy: page('lab', () => import('./routes/lab/lab-profile')) },
             { path: lab(paths.lab.staff.path), lazy: page('lab', () => import('./routes/lab/staff')) },

@@ -57,6 +57,12 @@ export const paths = {
       permission: 'offers.respond',
     } satisfies PathEntry<[offerId: string]>,
     inbound: fixed('/lab/inbound', 'inbound.read'),
+    checkIn: {
+      path: '/lab/check-in',
+      getHref: (code?: string) => (code ? `/lab/check-in?code=${encodeURIComponent(code)}` : '/lab/check-in'),
+      permission: 'inbound.check-in',
+    } satisfies PathEntry<[code?: string]>,
+    outbound: fixed('/lab/outbound', 'outbound.ship'),
     bench: fixed('/lab/bench', 'bench.work'),
     labProfile: fixed('/lab/profile', 'lab-profile.manage'),
     staff: fixed('/lab/staff', 'staff.read'),
