@@ -6,6 +6,8 @@ import { PortalGuard, portalLoader } from '../guard';
 export const labNav: NavEntry[] = [
   { label: 'Offers', href: paths.lab.offers.getHref(), permission: paths.lab.offers.permission },
   { label: 'Inbound boxes', href: paths.lab.inbound.getHref(), permission: paths.lab.inbound.permission },
+  { label: 'Check-in', href: paths.lab.checkIn.getHref(), permission: paths.lab.checkIn.permission },
+  { label: 'Outbound', href: paths.lab.outbound.getHref(), permission: paths.lab.outbound.permission },
   { label: 'Bench queue', href: paths.lab.bench.getHref(), permission: paths.lab.bench.permission },
   { label: 'Lab profile', href: paths.lab.labProfile.getHref(), permission: paths.lab.labProfile.permission },
   { label: 'Staff', href: paths.lab.staff.getHref(), permission: paths.lab.staff.permission },
