@@ -8,6 +8,7 @@ import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
 import { getReferralQueryOptions, useReferral } from '@/features/referrals/api/get-referral';
 import { CaseDetail } from '@/features/referrals/components/case-detail';
+import { ShipSection } from '@/features/shipping/components/ship-section';
 
 export const clientLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
   // A failure (another shop's case, a mistyped link) is shown by the page itself.
@@ -38,5 +39,10 @@ export default function CasePage() {
       </>
     );
   }
-  return <CaseDetail referral={referral.data} />;
+  return (
+    <>
+      <CaseDetail referral={referral.data} />
+      <ShipSection referralId={referral.data.id} />
+    </>
+  );
 }
