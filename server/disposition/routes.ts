@@ -34,7 +34,12 @@ export function dispositionRoutes(ctx: ServiceContext, guard: Guard, storage: Bl
     res.setHeader('ETag', `"${certificate.contentHash}"`);
     res.setHeader('Cache-Control', 'private, max-age=86400');
     res.setHeader('X-Content-Type-Options', 'nosniff');
-    await pipeline(stream, res);
+    try {
+      await pipeline(stream, res);
+    } catch (err) {
+      // A reader that hangs up halfway (a closed tab) is not our failure.
+      if ((err as NodeJS.ErrnoException).code !== 'ERR_STREAM_PREMATURE_CLOSE') throw err;
+    }
   });
 
   return router;
