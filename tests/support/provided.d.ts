@@ -3,6 +3,8 @@ declare module 'vitest' {
   export interface ProvidedContext {
     databaseUrl: string;
     appUrl: string;
+    /** The browser suite's shipping fake (its /_fake/clock moves tracking on). */
+    shippingFakeUrl: string;
     mailApiUrl: string;
     smtpPort: number;
   }

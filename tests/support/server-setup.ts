@@ -18,6 +18,19 @@ async function freePort(): Promise<number> {
 export default async function setup(project: TestProject) {
   const port = await freePort();
   const appUrl = `http://127.0.0.1:${port}`;
+  // The shipping fake for the browser suite, its own process; its clock moves only when a test says so,
+  // and it posts its signed tracking events to this server.
+  const shippingPort = await freePort();
+  const shippingUrl = `http://127.0.0.1:${shippingPort}`;
+  const shippingEnv = {
+    SHIPPING_API_KEY: 'e2e_shipping_key',
+    SHIPPING_WEBHOOK_SECRET: 'e2e-shipping-webhook-secret',
+    SHIPPING_WEBHOOK_URL: `${appUrl}/api/webhooks/shipping`,
+  };
+  const shippingFake = spawn(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'fakes/shipping/main.ts'], {
+    env: { ...process.env, ...shippingEnv, SHIPPING_FAKE_PORT: String(shippingPort), SHIPPING_CLOCK_SPEED: '0' },
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
   const child = spawn(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'server/index.ts'], {
     env: {
       ...process.env,
@@ -26,6 +39,8 @@ export default async function setup(project: TestProject) {
       APP_URL: appUrl,
       SMTP_PORT: process.env.TEST_SMTP_PORT ?? '2525',
       LOG_LEVEL: 'warn',
+      ...shippingEnv,
+      SHIPPING_API_URL: `${shippingUrl}/v2/`,
     },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
@@ -40,8 +55,18 @@ export default async function setup(project: TestProject) {
     if (Date.now() > deadline) throw new Error('the server did not answer /api/health within 60 s');
     await new Promise((r) => setTimeout(r, 200));
   }
+  for (let i = 0; ; i++) {
+    try {
+      if ((await fetch(`${shippingUrl}/_fake/clock`)).ok) break;
+    } catch {
+      if (i > 150) throw new Error('the shipping fake did not start');
+      await new Promise((r) => setTimeout(r, 200));
+    }
+  }
   project.provide('appUrl', appUrl);
+  project.provide('shippingFakeUrl', shippingUrl);
   return async () => {
+    shippingFake.kill('SIGTERM');
     await new Promise<void>((resolve) => {
       child.once('exit', () => resolve());
       child.kill('SIGTERM');
