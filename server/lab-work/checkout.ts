@@ -172,8 +172,8 @@ export async function applyPayment(ctx: ServiceContext, manager: EntityManager, 
     kind: 'payment_received',
     summary: `Payment of ${amount} received from the customer.`,
     actor,
-    details: { paymentIntentId: payment.paymentIntentId, amountMinor: checkout.amountMinor, feeMinor: payment.feeMinor, currency: checkout.currency },
-    at: payment.paidAt,
+    // Written when the payment is recorded; the provider's own time (whole seconds) is kept beside it.
+    details: { paymentIntentId: payment.paymentIntentId, amountMinor: checkout.amountMinor, feeMinor: payment.feeMinor, currency: checkout.currency, paidAt: payment.paidAt.toISOString() },
   };
   if (referral.status === 'approved') await moveCase(manager, referral, 'paid', entry);
   else {
