@@ -9,6 +9,7 @@ import { logger } from '../lib/logger';
 import { Organization } from '../organizations/entities';
 import { paymentsClient } from './client';
 import { PayoutAccount } from './entities';
+import { updateReturning } from './sql';
 import { onPaymentEvent } from './webhook';
 
 /*
@@ -130,7 +131,8 @@ export async function startOnboarding(ctx: ServiceContext, actor: Actor): Promis
  */
 export async function applyAccountState(ctx: ServiceContext, manager: EntityManager, remote: Stripe.Account, asOf: Date): Promise<void> {
   const state = stateOf(remote);
-  const rows: { organization_id: string; was_enabled: boolean }[] = await manager.query(
+  const rows = await updateReturning<{ organization_id: string; was_enabled: boolean }>(
+    manager,
     `UPDATE payout_accounts p SET charges_enabled = $2, payouts_enabled = $3, details_submitted = $4, requirements_due = $5,
             status_as_of = $6, updated_at = now()
      FROM (SELECT organization_id, payouts_enabled AS was_enabled FROM payout_accounts WHERE provider_account_id = $1 FOR UPDATE) old

@@ -11,6 +11,7 @@ import { logger } from '../lib/logger';
 import { postPayout } from '../ledger';
 import { enqueueEmail } from '../notifications';
 import { paymentsClient } from './client';
+import { updateReturning } from './sql';
 import { SettlementRun, Statement, type SettlementRunSummary, type SettlementTrigger } from './entities';
 import { runDtos } from './views';
 
@@ -224,7 +225,8 @@ async function prepareStatements(
          AND c.carry_forward_minor < 0 AND c.carried_into_statement_id IS NULL AND c.period < s.period`,
       [ids],
     );
-    const prepared: PreparedStatement[] = await manager.query(
+    const prepared = await updateReturning<PreparedStatement>(
+      manager,
       `WITH sums AS (
          SELECT statement_id, count(*)::int AS n, sum(amount_minor) AS lines FROM earning_lines WHERE statement_id = ANY($1) GROUP BY statement_id
        ), carried AS (
@@ -336,7 +338,8 @@ function errorText(err: unknown): string {
  */
 export async function payStatement(ctx: ServiceContext, statementId: string, options: { now?: Date; manual?: boolean } = {}): Promise<PayOutcome> {
   const now = options.now ?? new Date();
-  const [claimed]: ClaimedStatement[] = await ctx.db.query(
+  const [claimed] = await updateReturning<ClaimedStatement>(
+    ctx.db,
     `WITH prev AS (SELECT id, status FROM statements WHERE id = $1 FOR UPDATE)
      UPDATE statements s SET status = 'paying', claimed_at = $2, updated_at = now()
      FROM prev WHERE s.id = prev.id AND prev.status IN ('pending', 'failed', 'paying', 'no_account')

@@ -1,3 +1,4 @@
+import { createRequire } from 'node:module';
 import { randomBytes } from 'node:crypto';
 import Stripe from 'stripe';
 import type { DataSource, EntityManager } from 'typeorm';
@@ -119,4 +120,16 @@ export async function paidCase(
     }),
   );
   return { ...kase, ...result };
+}
+
+/** pdf-parse v1's library file (its index reads a sample PDF when loaded as a main module). */
+const pdfParse = createRequire(import.meta.url)('pdf-parse/lib/pdf-parse.js') as (data: Buffer) => Promise<{ numpages: number; text: string }>;
+
+export async function pdfText(pdf: Buffer): Promise<string> {
+  return (await pdfParse(pdf)).text;
+}
+
+/** E-mails the outbox holds for a person, by template. */
+export async function mailsTo(db: DataSource, email: string): Promise<{ template: string; subject: string; text_body: string }[]> {
+  return db.query(`SELECT template, subject, text_body FROM outbox_messages WHERE recipient = $1 ORDER BY created_at`, [email]);
 }
