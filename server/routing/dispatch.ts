@@ -7,7 +7,7 @@ import type { LabSkill } from '@shared/vocabulary';
 import { enqueueJob, queues } from '../jobs';
 import { AppError } from '../lib/errors';
 import type { ServiceContext } from '../lib/context';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { Referral } from '../referrals/entities';
 import { LabOffer, RoutingSnapshot, type RoutingTrigger } from './entities';
 import type { LoadedLab } from './labs';
@@ -99,7 +99,7 @@ export async function acceptInTransaction(
     details: { offerId: offer.id, labId: lab.id, autoAccepted: auto, ...(auto ? { rule: how.rule } : {}) },
   });
   for (const person of await shopUsers(manager, referral.partnerOrganizationId)) {
-    await enqueueEmail(manager, person.email, 'referral_accepted', {
+    await enqueueEmailToUser(manager, { email: person.email }, 'referral_accepted', {
       name: person.name,
       reference: referral.reference,
       customerName: referral.customerName,
@@ -110,7 +110,7 @@ export async function acceptInTransaction(
   if (auto) {
     const shop = await partnerName(manager, referral);
     for (const person of await labManagers(manager, lab.id)) {
-      await enqueueEmail(manager, person.email, 'lab_case_auto_accepted', {
+      await enqueueEmailToUser(manager, { email: person.email }, 'lab_case_auto_accepted', {
         name: person.name,
         labName: lab.name,
         reference: referral.reference,
@@ -160,7 +160,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
   await enqueueJob(manager, queues.offerExpire, { offerId: offer.id }, { startAfter: deadline, singletonKey: offer.id });
   const shop = await partnerName(manager, referral);
   for (const person of await labManagers(manager, lab.id)) {
-    await enqueueEmail(manager, person.email, 'lab_offer_new', {
+    await enqueueEmailToUser(manager, { email: person.email }, 'lab_offer_new', {
       name: person.name,
       labName: lab.name,
       reference: referral.reference,
@@ -180,7 +180,7 @@ async function markNeedsAttention(ctx: ServiceContext, manager: EntityManager, r
   await recordTimeline(manager, referral.id, { kind: 'needs_attention', summary: `Waiting for the network to route it by hand. ${reason}`, actor: routingActor, at: now, details: { reason } });
   const shop = await partnerName(manager, referral);
   for (const person of await networkAdmins(manager)) {
-    await enqueueEmail(manager, person.email, 'referral_needs_attention', {
+    await enqueueEmailToUser(manager, { email: person.email }, 'referral_needs_attention', {
       name: person.name,
       reference: referral.reference,
       shop,
@@ -237,7 +237,7 @@ export async function withdrawPendingOffer(manager: EntityManager, referral: Ref
     details: { offerId: offer.id, labId: offer.labOrganizationId },
   });
   for (const person of await labManagers(manager, offer.labOrganizationId)) {
-    await enqueueEmail(manager, person.email, 'lab_offer_withdrawn', { name: person.name, labName, reference: referral.reference, reason: why.reason });
+    await enqueueEmailToUser(manager, { email: person.email }, 'lab_offer_withdrawn', { name: person.name, labName, reference: referral.reference, reason: why.reason });
   }
   return offer;
 }
