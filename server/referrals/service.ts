@@ -18,7 +18,7 @@ import { recordAudit } from '../audit';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { Organization } from '../organizations';
 import { listReferralPhotos } from '../uploads';
 import {
@@ -415,7 +415,7 @@ export async function cancelInTransaction(manager: EntityManager, referral: Refe
       [referral.labOrganizationId],
     );
     for (const person of managers) {
-      await enqueueEmail(manager, person.email, 'lab_offer_withdrawn', {
+      await enqueueEmailToUser(manager, { email: person.email }, 'lab_offer_withdrawn', {
         name: person.name,
         labName: lab?.name ?? 'your lab',
         reference: referral.reference,
