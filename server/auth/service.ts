@@ -4,7 +4,7 @@ import type { MeResponse, SessionUser } from '@shared/schemas/auth';
 import { recordAudit } from '../audit';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { Organization } from '../organizations/entities';
 import { OneTimeToken, RefreshToken, User, type OneTimeTokenPurpose } from './entities';
 import { decoyHash, hashPassword, verifyPassword } from './passwords';
@@ -194,7 +194,7 @@ export async function requestPasswordReset(ctx: ServiceContext, email: string): 
     // Unknown or inactive addresses get the same answer and no mail: no account discovery.
     if (!user || user.status !== 'active') return;
     const token = await issueOneTimeToken(manager, { userId: user.id, purpose: 'password_reset', ttlMs: ctx.config.passwordResetTtlMinutes * 60_000 });
-    await enqueueEmail(manager, user.email, 'password_reset', {
+    await enqueueEmailToUser(manager, user.id, 'password_reset', {
       name: user.name,
       url: `${ctx.config.appUrl}/reset-password?token=${encodeURIComponent(token)}`,
       minutes: ctx.config.passwordResetTtlMinutes,
