@@ -4,7 +4,7 @@ import { recordAudit } from '../audit';
 import { issueOneTimeToken, User } from '../auth';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { Organization } from './entities';
 
 export function toOrganizationDto(o: Organization) {
@@ -66,7 +66,7 @@ export async function inviteStaff(ctx: ServiceContext, actor: Actor, input: Invi
       ttlMs: ctx.config.invitationTtlHours * 3_600_000,
       createdById: actor.userId,
     });
-    await enqueueEmail(manager, user.email, 'staff_invitation', {
+    await enqueueEmailToUser(manager, user.id, 'staff_invitation', {
       name: user.name,
       inviterName: inviter.name,
       organizationName: org.name,
