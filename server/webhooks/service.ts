@@ -7,7 +7,7 @@ import { User } from '../auth';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { logger } from '../lib/logger';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { WebhookAttempt, WebhookDelivery, WebhookEndpoint, WebhookEvent } from './entities';
 import { newWebhookSecret, webhookHeaders } from './signing';
 
@@ -198,7 +198,7 @@ async function disableFailingEndpoint(manager: EntityManager, endpointId: string
   if (!affected) return;
   await manager.query(`UPDATE webhook_deliveries SET status = 'failed', next_attempt_at = NULL WHERE endpoint_id = $1 AND status = 'pending'`, [endpointId]);
   const admins = await manager.findBy(User, { organizationId, role: 'partner_admin', status: 'active' });
-  for (const admin of admins) await enqueueEmail(manager, admin.email, 'webhook_endpoint_disabled', { name: admin.name, url, reason });
+  for (const admin of admins) await enqueueEmailToUser(manager, admin.id, 'webhook_endpoint_disabled', { name: admin.name, url, reason });
   await recordAudit(manager, { action: 'webhook_endpoint.disabled', organizationId, targetType: 'webhook_endpoint', targetId: endpointId, details: { url, reason } });
   logger.warn({ endpointId, url }, 'webhook endpoint disabled after failing for a day');
 }
