@@ -19,7 +19,7 @@ import { batteryMediaTypes, caseStatusLabels, priorityCategoryLabels, symptomLab
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { Organization } from '../organizations';
 import { addTimelineEntry, lockReferral, Referral, type TimelineActor } from '../referrals';
 import { LabOffer, routeAndOffer } from '../routing';
@@ -384,8 +384,8 @@ export async function checkInBox(
     );
     const url = `${ctx.config.appUrl}/partner/cases/${referral.id}`;
     for (const person of shopPeople) {
-      if (holdReason) await enqueueEmail(manager, person.email, 'case_on_hold', { name: person.name, reference: referral.reference, labName: lab.name, reason: holdReason, url });
-      else await enqueueEmail(manager, person.email, 'box_checked_in', { name: person.name, reference: referral.reference, labName: lab.name, customerName: referral.customerName, url });
+      if (holdReason) await enqueueEmailToUser(manager, { email: person.email }, 'case_on_hold', { name: person.name, reference: referral.reference, labName: lab.name, reason: holdReason, url });
+      else await enqueueEmailToUser(manager, { email: person.email }, 'box_checked_in', { name: person.name, reference: referral.reference, labName: lab.name, customerName: referral.customerName, url });
     }
     return { checkIn: checkInSummary(checkIn, lab.name, accepted.length), caseStatus: outcome };
   });
@@ -448,7 +448,7 @@ export async function declineAfterArrival(ctx: ServiceContext, actor: Actor, ref
       [referral.partnerOrganizationId],
     );
     for (const person of shopPeople) {
-      await enqueueEmail(manager, person.email, 'case_transfer', {
+      await enqueueEmailToUser(manager, { email: person.email }, 'case_transfer', {
         name: person.name,
         reference: referral.reference,
         fromLab: lab.name,
