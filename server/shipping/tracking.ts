@@ -4,7 +4,7 @@ import type { ShipmentStatus } from '@shared/schemas/shipping';
 import { AppError } from '../lib/errors';
 import type { ServiceContext } from '../lib/context';
 import { logger } from '../lib/logger';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { addTimelineEntry, lockReferral, Referral, type TimelineActor } from '../referrals';
 import { carrierClient, classifyCarrierError, type ProviderTracker, type ProviderTrackingDetail } from './carrier';
 import { statusRank } from './dto';
@@ -176,7 +176,7 @@ export async function applyTracker(ctx: ServiceContext, manager: EntityManager, 
       [referral.partnerOrganizationId],
     );
     for (const person of people) {
-      await enqueueEmail(manager, person.email, 'shipment_exception', {
+      await enqueueEmailToUser(manager, { email: person.email }, 'shipment_exception', {
         name: person.name,
         reference: referral.reference,
         carrier: carrier.name,
