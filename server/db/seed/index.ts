@@ -7,6 +7,7 @@ import { DEMO_PASSWORD, demoAccounts } from './demo-accounts';
 import { seedDemoApiKeys } from './demo-api-keys';
 import { seedDemoCases } from './demo-cases';
 import { seedDemoLabs } from './demo-labs';
+import { seedDemoShipments } from './demo-shipments';
 import { demoExtraStaff, demoOrganizations } from './demo-data';
 
 /**
@@ -53,6 +54,8 @@ export async function seedDemo(db: DataSource, config: Config = loadConfig()): P
     const now = new Date();
     await seedDemoLabs(manager, orgIds, now);
     await seedDemoCases(manager, orgIds, { config, passwordHash, now });
+    // Boxes for accepted demo cases in several tracking states (marked historical: see demo-shipments.ts).
+    await seedDemoShipments(manager, { now, ssccCompanyPrefix: config.shipping.ssccCompanyPrefix });
     return { seeded: true };
   });
 }
