@@ -92,6 +92,7 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: lab(paths.lab.checkIn.path), lazy: page('lab', () => import('./routes/lab/check-in')) },
             { path: lab(paths.lab.outbound.path), lazy: page('lab', () => import('./routes/lab/outbound')) },
             { path: lab(paths.lab.bench.path), lazy: page('lab', () => import('./routes/lab/bench')) },
+            { path: lab(paths.lab.case.path), lazy: page('lab', () => import('./routes/lab/case')) },
             { path: lab(paths.lab.labProfile.path), lazy: page('lab', () => import('./routes/lab/lab-profile')) },
             { path: lab(paths.lab.staff.path), lazy: page('lab', () => import('./routes/lab/staff')) },
             { path: '*', Component: NotFoundInPortal },
@@ -117,6 +118,7 @@ export function createAppRouter(queryClient: QueryClient) {
           children: portalPages([{ path: paths.profile.path, lazy: page('any', () => import('./routes/profile')) }]),
         },
 
+        { path: paths.customer.checkoutReturn.path, lazy: page(undefined, () => import('./routes/public/checkout-return')) },
         { path: paths.customer.case.path, lazy: page(undefined, () => import('./routes/public/customer-case')) },
 
         { path: '*', Component: NotFoundPage },

@@ -63,6 +63,11 @@ export const paths = {
       permission: 'inbound.check-in',
     } satisfies PathEntry<[code?: string]>,
     outbound: fixed('/lab/outbound', 'outbound.ship'),
+    case: {
+      path: '/lab/cases/:caseId',
+      getHref: (caseId: string) => `/lab/cases/${encodeURIComponent(caseId)}`,
+      permission: 'bench.work',
+    } satisfies PathEntry<[caseId: string]>,
     bench: fixed('/lab/bench', 'bench.work'),
     labProfile: fixed('/lab/profile', 'lab-profile.manage'),
     staff: fixed('/lab/staff', 'staff.read'),
@@ -82,6 +87,11 @@ export const paths = {
       path: '/c/:token',
       getHref: (token: string) => `/c/${encodeURIComponent(token)}`,
     } satisfies PathEntry<[token: string]>,
+    /** Where the payment provider's page sends the customer back; the token waits in the tab meanwhile. */
+    checkoutReturn: {
+      path: '/c/checkout/:outcome',
+      getHref: (outcome: 'done' | 'cancelled') => `/c/checkout/${outcome}`,
+    } satisfies PathEntry<[outcome: 'done' | 'cancelled']>,
   },
 } as const;
 

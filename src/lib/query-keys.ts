@@ -89,3 +89,25 @@ export const webhookKeys = {
   lists: () => [...webhookKeys.all, 'list'] as const,
   deliveries: (endpointId: string) => [...webhookKeys.all, 'deliveries', endpointId] as const,
 };
+
+/** The lab's bench queue, its cases and the keys of its imaging tools. */
+export const benchKeys = {
+  all: ['bench'] as const,
+  lists: () => [...benchKeys.all, 'list'] as const,
+  list: (filters: Record<string, string | undefined> = {}) => [...benchKeys.lists(), filters] as const,
+  case: (id: string) => [...benchKeys.all, 'case', id] as const,
+  toolKeys: () => [...benchKeys.all, 'tool-keys'] as const,
+};
+
+/** The shop's view of the lab's work on its case, and the case's customer links. */
+export const labWorkKeys = {
+  all: ['lab-work'] as const,
+  shop: (referralId: string) => [...labWorkKeys.all, 'shop', referralId] as const,
+  links: (referralId: string) => [...labWorkKeys.all, 'links', referralId] as const,
+};
+
+/** The customer's page, by the link's token (held in memory only). */
+export const customerCaseKeys = {
+  all: ['customer-case'] as const,
+  case: (token: string) => [...customerCaseKeys.all, token] as const,
+};
