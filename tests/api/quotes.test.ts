@@ -124,7 +124,7 @@ describe('POST /api/lab/cases/:id/quote', () => {
       ],
     ];
     for (const [body, paths] of cases) {
-      const res = await request(app).post(`/api/lab/cases/${c.id}/quote`).set(auth(world.manager.token)).send(body);
+      const res = await request(app).post(`/api/lab/cases/${c.id}/quote`).set(auth(world.manager.token)).send(body as object);
       expect(res.status, JSON.stringify(body)).toBe(400);
       expect((res.body.error.fields as { path: string }[]).map((f) => f.path), JSON.stringify(body)).toEqual(expect.arrayContaining(paths));
     }

@@ -1,14 +1,26 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '@/components/layouts/page-header';
+import { Can } from '@/lib/auth';
+import { getBenchQueryOptions } from '@/features/bench/api/get-bench';
+import { BenchTable } from '@/features/bench/components/bench-table';
+import { ToolKeys } from '@/features/bench/components/tool-keys';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  // A failure is shown by the table itself, with a retry.
+  await queryClient.ensureQueryData(getBenchQueryOptions()).catch(() => undefined);
+  return null;
+};
+
+export default function BenchPage() {
   return (
-    <PlaceholderPage
-      title="Bench queue"
-      description="Cases in your lab waiting for evaluation, imaging or recovery."
-      upcoming={[
-        'The queue in order of promise date, with each case’s stage and who is working on it.',
-        'Findings, imaging progress and the recovered-file list for the customer to review.',
-      ]}
-    />
+    <>
+      <PageHeader title="Bench queue" description="Your lab’s received cases, the soonest promise first: evaluation, quote, imaging and the recovered files." />
+      <div className="flex flex-col gap-8">
+        <BenchTable />
+        <Can permission="lab-api-keys.manage">
+          <ToolKeys />
+        </Can>
+      </div>
+    </>
   );
 }
