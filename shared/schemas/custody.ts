@@ -3,7 +3,8 @@ import { custodyActions } from '../domain/custody-chain';
 
 // The custody log of a case's original media, as the API answers it and as the signed export states it.
 
-export const custodyActorTypes = ['user', 'api_key', 'system', 'carrier'] as const;
+// The same kinds of actor as the case timeline, so a component passes its timeline actor along.
+export const custodyActorTypes = ['user', 'api_key', 'system', 'carrier', 'customer'] as const;
 export type CustodyActorType = (typeof custodyActorTypes)[number];
 
 const hash = z.string().regex(/^[0-9a-f]{64}$/, 'A SHA-256 hash in lower-case hex');

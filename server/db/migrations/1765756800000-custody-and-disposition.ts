@@ -14,7 +14,7 @@ export class CustodyAndDisposition1765756800000 implements MigrationInterface {
         action text NOT NULL CHECK (action IN ('packed_by_shop', 'handed_to_carrier', 'delivered', 'checked_in', 'to_clean_bench',
           'imaged', 'returned', 'sanitized', 'transferred')),
         at timestamptz NOT NULL,
-        actor_type text NOT NULL CHECK (actor_type IN ('user', 'api_key', 'system', 'carrier')),
+        actor_type text NOT NULL CHECK (actor_type IN ('user', 'api_key', 'system', 'carrier', 'customer')),
         actor_id text,
         actor_name text NOT NULL,
         location text,
