@@ -1,5 +1,7 @@
 import { benchRouting } from './routing';
+import { benchShipping } from './shipping';
 
 // `npm run bench`: prints speed figures; nothing here is asserted in the test suite.
 console.log('Platterpost benchmarks\n');
 benchRouting();
+await benchShipping();
