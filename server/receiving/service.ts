@@ -22,6 +22,7 @@ import { parseInput } from '../lib/validate';
 import { enqueueEmailToUser } from '../notifications';
 import { Organization } from '../organizations';
 import { addTimelineEntry, lockReferral, Referral, type TimelineActor } from '../referrals';
+import { appendCustody, organizationPlace } from '../custody';
 import { LabOffer, routeAndOffer } from '../routing';
 import {
   checkInSummary,
@@ -87,11 +88,11 @@ interface BoardRow {
  */
 export const BOARD_SQL = `
   WITH candidates AS (
-      SELECT s.* FROM shipments s
+      SELECT s.id, s.referral_id, s.kind, s.status, s.tracking_code, s.carrier, s.service, s.from_organization_id, s.estimated_delivery_at, s.delivered_at, s.checked_in_at, s.last_event_at, s.last_status_detail, s.last_message, s.last_location, s.battery_mark_text, s.overdue_at FROM shipments s
        WHERE s.to_organization_id = $1 AND s.kind IN ('inbound', 'transfer')
          AND s.checked_in_at IS NULL AND s.status NOT IN ('awaiting_purchase', 'voided')
     UNION ALL
-      SELECT s.* FROM shipments s
+      SELECT s.id, s.referral_id, s.kind, s.status, s.tracking_code, s.carrier, s.service, s.from_organization_id, s.estimated_delivery_at, s.delivered_at, s.checked_in_at, s.last_event_at, s.last_status_detail, s.last_message, s.last_location, s.battery_mark_text, s.overdue_at FROM shipments s
        WHERE s.to_organization_id = $1 AND s.kind IN ('inbound', 'transfer')
          AND s.delivered_at IS NOT NULL AND s.delivered_at >= $2 AND s.checked_in_at IS NOT NULL
   ), board AS (
@@ -110,8 +111,9 @@ export const BOARD_SQL = `
              ELSE 'in_transit'
            END AS bucket
       FROM candidates c
-      JOIN referrals r ON r.id = c.referral_id
-      LEFT JOIN organizations o ON o.id = c.from_organization_id
+      -- Lateral look-ups by primary key: the board is a few hundred boxes, the tables are large.
+      JOIN LATERAL (SELECT reference, media_type, battery FROM referrals WHERE id = c.referral_id) r ON true
+      LEFT JOIN LATERAL (SELECT name, city, region FROM organizations WHERE id = c.from_organization_id) o ON true
      WHERE ($3::text IS NULL
             OR c.tracking_code = $3
             OR r.reference = $4
@@ -128,20 +130,22 @@ export async function inboundBoard(ctx: ServiceContext, actor: Actor, rawQuery: 
   const todayStart = DateTime.fromJSDate(now).setZone(timeZone).startOf('day').toJSDate();
   const params = boardParams(labId, todayStart, query.q);
 
-  const [rows, counts] = await Promise.all([
-    manager.query(
+  // One pass: the board is the lab's open boxes and today's deliveries, so counting in memory is cheap.
+  const rows: BoardRow[] = await ctx.db.transaction(async (tx) => {
+    // A few hundred rows by index: starting parallel workers would cost more than the query itself.
+    await tx.query(`SET LOCAL max_parallel_workers_per_gather = 0`);
+    return tx.query(
       `${BOARD_SQL}
-       SELECT * FROM board WHERE ($7::text IS NULL OR bucket = $7)
+       SELECT * FROM board
         ORDER BY array_position(ARRAY['exception','overdue','delivered_today','awaiting_check_in','out_for_delivery','in_transit','label_issued'], bucket),
-                 estimated_delivery_at NULLS LAST, id
-        LIMIT $8`,
-      [...params, query.bucket ?? null, query.limit],
-    ) as Promise<BoardRow[]>,
-    manager.query(`${BOARD_SQL} SELECT bucket, count(*)::int AS n FROM board GROUP BY bucket`, params) as Promise<{ bucket: BoardBucket; n: number }[]>,
-  ]);
+                 estimated_delivery_at NULLS LAST, id`,
+      params,
+    );
+  });
   const countMap = Object.fromEntries(boardBuckets.map((b) => [b, 0])) as Record<BoardBucket, number>;
-  for (const c of counts) countMap[c.bucket] = c.n;
-  return { asOf: now.toISOString(), timeZone, counts: countMap, data: rows.map(toBoardRow) };
+  for (const r of rows) countMap[r.bucket] += 1;
+  const shown = rows.filter((r) => !query.bucket || r.bucket === query.bucket).slice(0, query.limit);
+  return { asOf: now.toISOString(), timeZone, counts: countMap, data: shown.map(toBoardRow) };
 }
 
 export function boardParams(labId: string, todayStart: Date, q: string | undefined): unknown[] {
@@ -375,6 +379,7 @@ export async function checkInBox(
       at: now,
       details: { checkInId: checkIn.id, shipmentId: shipment?.id ?? null, outcome, boxCondition: input.boxCondition, seal: input.seal, contentsMatch: input.contentsMatch, batteryCondition: battery },
     });
+    await appendCustody(manager, referral.id, { action: 'checked_in', actor: who, location: await organizationPlace(manager, labId), at: now, details: { checkInId: checkIn.id, boxCondition: input.boxCondition, seal, contentsMatch: input.contentsMatch, outcome } });
     if (holdReason) {
       await addTimelineEntry(manager, referral.id, { kind: 'on_hold', summary: `On hold at ${lab.name}: ${holdReason}`, actor: who, at: now, details: { checkInId: checkIn.id, reason: holdReason } });
     }
