@@ -111,3 +111,25 @@ export const customerCaseKeys = {
   all: ['customer-case'] as const,
   case: (token: string) => [...customerCaseKeys.all, token] as const,
 };
+
+/** The case record: its custody log, the disposition of its media and the certificates of sanitization. */
+export const caseRecordKeys = {
+  all: ['case-record'] as const,
+  custody: (caseId: string) => [...caseRecordKeys.all, 'custody', caseId] as const,
+  dispositions: (caseId: string) => [...caseRecordKeys.all, 'dispositions', caseId] as const,
+};
+
+export type AuditFilters = Record<string, string | undefined>;
+
+/** The network admin's audit log and what its filters can choose from. */
+export const auditKeys = {
+  all: ['audit'] as const,
+  lists: () => [...auditKeys.all, 'list'] as const,
+  list: (filters: AuditFilters = {}) => [...auditKeys.lists(), filters] as const,
+  facets: () => [...auditKeys.all, 'facets'] as const,
+};
+
+/** The signed-in person's own e-mail choices. */
+export const notificationPreferenceKeys = {
+  all: ['notification-preferences'] as const,
+};
