@@ -4,7 +4,7 @@ export { paymentsClient } from './client';
 // The provider's events: one route, and a dispatcher other components register their handlers on.
 export { onPaymentEvent, dispatchPaymentEvent, paymentWebhookRoutes, type PaymentEventHandler } from './webhook';
 export { getPayoutAccount, startOnboarding, applyAccountState, toPayoutAccountDto } from './accounts';
-export { runSettlement, payStatement, retryPayout, retryPayoutNow, sweepPayouts, backoffMs, type PayOutcome, type RunSettlementOptions } from './settlement';
+export { runSettlement, prepareStatementsIn, payStatement, retryPayout, retryPayoutNow, sweepPayouts, backoffMs, type PayOutcome, type RunSettlementOptions } from './settlement';
 export { earningsOf, getEarnings, settlementOverview } from './reports';
 export { statementCsv, statementPdf } from './documents';
 export { getStatementDetail, listStatements } from './views';

@@ -193,61 +193,71 @@ async function prepareStatements(
   ctx: ServiceContext,
   input: { runId: string; period: string; end: Date; scope: string[] | null },
 ): Promise<{ created: number; carriedForward: number }> {
-  return ctx.db.transaction(async (manager) => {
-    const inserted: { id: string }[] = await manager.query(
-      `INSERT INTO statements (organization_id, payee_kind, period, currency, run_id, status, idempotency_key, transfer_group)
-       SELECT d.organization_id, d.payee_kind, $1, d.currency, $2, 'preparing', d.key, d.key
-       FROM (
-         SELECT DISTINCT organization_id, payee_kind, currency,
-                -- The key names payee and period; a second currency in the same month gets its code added.
-                'settlement:' || organization_id || ':' || $1 || CASE WHEN currency = 'USD' THEN '' ELSE ':' || lower(currency) END AS key
-         FROM earning_lines
-         WHERE statement_id IS NULL AND accrued_at < $3 AND ($4::uuid[] IS NULL OR organization_id = ANY($4))
-       ) d
-       ON CONFLICT ON CONSTRAINT statements_one_per_period DO NOTHING
-       RETURNING id`,
-      [input.period, input.runId, input.end, input.scope],
-    );
-    const ids = inserted.map((r) => r.id);
-    if (ids.length === 0) return { created: 0, carriedForward: 0 };
-    await manager.query(
-      `UPDATE earning_lines l SET statement_id = s.id
-       FROM statements s
-       WHERE s.id = ANY($1) AND l.statement_id IS NULL AND l.organization_id = s.organization_id
-         AND l.currency = s.currency AND l.accrued_at < $2`,
-      [ids, input.end],
-    );
-    // Earlier negative balances are taken in (and marked as such), then the totals decide the status.
-    await manager.query(
-      `UPDATE statements c SET carried_into_statement_id = s.id, updated_at = now()
-       FROM statements s
-       WHERE s.id = ANY($1) AND c.organization_id = s.organization_id AND c.currency = s.currency
-         AND c.carry_forward_minor < 0 AND c.carried_into_statement_id IS NULL AND c.period < s.period`,
-      [ids],
-    );
-    const prepared = await updateReturning<PreparedStatement>(
-      manager,
-      `WITH sums AS (
-         SELECT statement_id, count(*)::int AS n, sum(amount_minor) AS lines FROM earning_lines WHERE statement_id = ANY($1) GROUP BY statement_id
-       ), carried AS (
-         SELECT carried_into_statement_id AS id, sum(carry_forward_minor) AS carry FROM statements
-         WHERE carried_into_statement_id = ANY($1) GROUP BY carried_into_statement_id
-       ), totals AS (
-         SELECT s.id, coalesce(x.n, 0) AS n, coalesce(x.lines, 0) AS lines, coalesce(c.carry, 0) AS carry,
-                coalesce(c.carry, 0) + coalesce(x.lines, 0) AS total
-         FROM statements s LEFT JOIN sums x ON x.statement_id = s.id LEFT JOIN carried c ON c.id = s.id
-         WHERE s.id = ANY($1)
-       )
-       UPDATE statements s SET line_count = t.n, lines_total_minor = t.lines, opening_carry_minor = t.carry, total_minor = t.total,
-              payout_minor = greatest(t.total, 0), carry_forward_minor = least(t.total, 0), updated_at = now(),
-              status = CASE WHEN t.total > 0 THEN 'pending' WHEN t.total < 0 THEN 'carried_forward' ELSE 'nothing_due' END
-       FROM totals t WHERE s.id = t.id
-       RETURNING s.id, s.organization_id, s.payee_kind, s.currency, s.status, s.total_minor::text, s.payout_minor::text`,
-      [ids],
-    );
-    await notifyStatementsReady(ctx, manager, input.period, prepared);
-    return { created: prepared.length, carriedForward: prepared.filter((p) => p.status === 'carried_forward').length };
-  });
+  return ctx.db.transaction((manager) => prepareStatementsIn(manager, input, ctx));
+}
+
+/**
+ * Step 1 in the caller's transaction. `notify` (the service context) e-mails each payee that its
+ * statement is ready; the demo seed, writing history, passes null.
+ */
+export async function prepareStatementsIn(
+  manager: EntityManager,
+  input: { runId: string; period: string; end: Date; scope: string[] | null },
+  notify: ServiceContext | null,
+): Promise<{ created: number; carriedForward: number; statementIds: string[] }> {
+  const inserted: { id: string }[] = await manager.query(
+    `INSERT INTO statements (organization_id, payee_kind, period, currency, run_id, status, idempotency_key, transfer_group)
+     SELECT d.organization_id, d.payee_kind, $1, d.currency, $2, 'preparing', d.key, d.key
+     FROM (
+       SELECT DISTINCT organization_id, payee_kind, currency,
+              -- The key names payee and period; a second currency in the same month gets its code added.
+              'settlement:' || organization_id || ':' || $1 || CASE WHEN currency = 'USD' THEN '' ELSE ':' || lower(currency) END AS key
+       FROM earning_lines
+       WHERE statement_id IS NULL AND accrued_at < $3 AND ($4::uuid[] IS NULL OR organization_id = ANY($4))
+     ) d
+     ON CONFLICT ON CONSTRAINT statements_one_per_period DO NOTHING
+     RETURNING id`,
+    [input.period, input.runId, input.end, input.scope],
+  );
+  const ids = inserted.map((r) => r.id);
+  if (ids.length === 0) return { created: 0, carriedForward: 0, statementIds: [] };
+  await manager.query(
+    `UPDATE earning_lines l SET statement_id = s.id
+     FROM statements s
+     WHERE s.id = ANY($1) AND l.statement_id IS NULL AND l.organization_id = s.organization_id
+       AND l.currency = s.currency AND l.accrued_at < $2`,
+    [ids, input.end],
+  );
+  // Earlier negative balances are taken in (and marked as such), then the totals decide the status.
+  await manager.query(
+    `UPDATE statements c SET carried_into_statement_id = s.id, updated_at = now()
+     FROM statements s
+     WHERE s.id = ANY($1) AND c.organization_id = s.organization_id AND c.currency = s.currency
+       AND c.carry_forward_minor < 0 AND c.carried_into_statement_id IS NULL AND c.period < s.period`,
+    [ids],
+  );
+  const prepared = await updateReturning<PreparedStatement>(
+    manager,
+    `WITH sums AS (
+       SELECT statement_id, count(*)::int AS n, sum(amount_minor) AS lines FROM earning_lines WHERE statement_id = ANY($1) GROUP BY statement_id
+     ), carried AS (
+       SELECT carried_into_statement_id AS id, sum(carry_forward_minor) AS carry FROM statements
+       WHERE carried_into_statement_id = ANY($1) GROUP BY carried_into_statement_id
+     ), totals AS (
+       SELECT s.id, coalesce(x.n, 0) AS n, coalesce(x.lines, 0) AS lines, coalesce(c.carry, 0) AS carry,
+              coalesce(c.carry, 0) + coalesce(x.lines, 0) AS total
+       FROM statements s LEFT JOIN sums x ON x.statement_id = s.id LEFT JOIN carried c ON c.id = s.id
+       WHERE s.id = ANY($1)
+     )
+     UPDATE statements s SET line_count = t.n, lines_total_minor = t.lines, opening_carry_minor = t.carry, total_minor = t.total,
+            payout_minor = greatest(t.total, 0), carry_forward_minor = least(t.total, 0), updated_at = now(),
+            status = CASE WHEN t.total > 0 THEN 'pending' WHEN t.total < 0 THEN 'carried_forward' ELSE 'nothing_due' END
+     FROM totals t WHERE s.id = t.id
+     RETURNING s.id, s.organization_id, s.payee_kind, s.currency, s.status, s.total_minor::text, s.payout_minor::text`,
+    [ids],
+  );
+  if (notify) await notifyStatementsReady(notify, manager, input.period, prepared);
+  return { created: prepared.length, carriedForward: prepared.filter((p) => p.status === 'carried_forward').length, statementIds: ids };
 }
 
 interface Recipient {
