@@ -8,6 +8,7 @@ import { seedDemoApiKeys } from './demo-api-keys';
 import { seedDemoCases } from './demo-cases';
 import { seedDemoLabs } from './demo-labs';
 import { seedDemoShipments } from './demo-shipments';
+import { seedDemoMoney } from './demo-money';
 import { demoExtraStaff, demoOrganizations } from './demo-data';
 
 /**
@@ -56,6 +57,8 @@ export async function seedDemo(db: DataSource, config: Config = loadConfig()): P
     await seedDemoCases(manager, orgIds, { config, passwordHash, now });
     // Boxes for accepted demo cases in several tracking states (marked historical: see demo-shipments.ts).
     await seedDemoShipments(manager, { now, ssccCompanyPrefix: config.shipping.ssccCompanyPrefix });
+    // Commission plans, four months of paid demo cases in the ledger, the three oldest settled.
+    await seedDemoMoney(manager, orgIds, now);
     return { seeded: true };
   });
 }
