@@ -1,14 +1,27 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import type { LoaderFunctionArgs } from 'react-router';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getAuditEventsQueryOptions } from '@/features/audit/api/get-audit-events';
+import { getAuditFacetsQueryOptions } from '@/features/audit/api/get-audit-facets';
+import { AuditLog, auditQueryFrom } from '@/features/audit/components/audit-log';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async ({ request }: LoaderFunctionArgs) => {
+  const filters = auditQueryFrom(new URL(request.url).searchParams);
+  await Promise.all([
+    queryClient.ensureQueryData(getAuditFacetsQueryOptions()).catch(() => undefined),
+    queryClient.ensureQueryData(getAuditEventsQueryOptions({ ...filters, cursor: undefined })).catch(() => undefined),
+  ]);
+  return null;
+};
+
+export default function AuditPage() {
   return (
-    <PlaceholderPage
-      title="Audit"
-      description="A record of who changed what, and when, across the network."
-      upcoming={[
-        'Searchable entries by person, organisation, case and date.',
-        'Exports for a dispute or a review.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="Audit log"
+        description="Security and money actions across the network: sign-ins, keys and endpoints, commission plans, settlement runs, routing by hand, custody exports and sanitizations."
+      />
+      <AuditLog />
+    </>
   );
 }
