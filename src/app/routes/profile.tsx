@@ -3,6 +3,7 @@ import { PageHeader } from '@/components/layouts/page-header';
 import { Card } from '@/components/ui/card';
 import { useUser } from '@/lib/auth';
 import { ChangePasswordForm } from '@/features/auth/components/change-password-form';
+import { NotificationPreferencesCard } from '@/features/notification-preferences/components/notification-preferences-card';
 
 export default function ProfilePage() {
   const user = useUser();
@@ -29,6 +30,7 @@ export default function ProfilePage() {
         <Card title="Change password">
           <ChangePasswordForm />
         </Card>
+        <NotificationPreferencesCard />
       </div>
     </>
   );
