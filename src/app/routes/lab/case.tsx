@@ -9,6 +9,7 @@ import { isApiError } from '@/lib/api-client';
 import { getLabCaseQueryOptions, useLabCase } from '@/features/bench/api/get-lab-case';
 import { LabCaseView } from '@/features/bench/components/lab-case-view';
 import { QuotePanel } from '@/features/quotes';
+import { CaseRecordPanel } from '@/features/custody';
 
 export const clientLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
   // A failure (another lab's case, a mistyped link) is shown by the page itself.
@@ -38,5 +39,10 @@ export default function LabCasePage() {
       </>
     );
   }
-  return <LabCaseView labCase={labCase.data} quoteSection={<QuotePanel labCase={labCase.data} />} />;
+  return (
+    <>
+      <LabCaseView labCase={labCase.data} quoteSection={<QuotePanel labCase={labCase.data} />} />
+      <CaseRecordPanel caseId={labCase.data.id} />
+    </>
+  );
 }
