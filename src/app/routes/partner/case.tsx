@@ -9,6 +9,7 @@ import { isApiError } from '@/lib/api-client';
 import { getReferralQueryOptions, useReferral } from '@/features/referrals/api/get-referral';
 import { CaseDetail } from '@/features/referrals/components/case-detail';
 import { ShipSection } from '@/features/shipping/components/ship-section';
+import { CaseRecordPanel } from '@/features/custody';
 
 export const clientLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
   // A failure (another shop's case, a mistyped link) is shown by the page itself.
@@ -43,6 +44,7 @@ export default function CasePage() {
     <>
       <CaseDetail referral={referral.data} />
       <ShipSection referralId={referral.data.id} />
+      <CaseRecordPanel caseId={referral.data.id} />
     </>
   );
 }
