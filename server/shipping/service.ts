@@ -17,6 +17,7 @@ import { logger } from '../lib/logger';
 import { parseInput } from '../lib/validate';
 import { Organization } from '../organizations';
 import { addTimelineEntry, lockReferral, Referral, type TimelineActor } from '../referrals';
+import { appendCustody, organizationPlace } from '../custody';
 import { CheckIn, LabTransfer } from '../receiving/entities';
 import { carrierClient, classifyCarrierError, toMinorUnits, type CarrierFailure, type ProviderRate, type ProviderShipment } from './carrier';
 import { isVoidable, statusRank, toShipmentDto, type Channel } from './dto';
@@ -533,6 +534,7 @@ export async function recordPurchase(ctx: ServiceContext, shipmentId: string, pr
       return;
     }
     if (referral.status === 'accepted') await manager.update(Referral, referral.id, { status: 'label_issued' });
+    await appendCustody(manager, referral.id, { action: shipment.kind === 'transfer' ? 'transferred' : 'packed_by_shop', actor: who, location: shipment.fromOrganizationId ? await organizationPlace(manager, shipment.fromOrganizationId) : null, at: now, details: { shipmentId: shipment.id, trackingCode: provider.tracking_code } });
     if (shipment.kind === 'transfer') {
       await manager.update(LabTransfer, { referralId: referral.id, status: 'open' }, { status: 'shipped', shipmentId: shipment.id });
     }
