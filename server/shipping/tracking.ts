@@ -6,6 +6,7 @@ import type { ServiceContext } from '../lib/context';
 import { logger } from '../lib/logger';
 import { enqueueEmailToUser } from '../notifications';
 import { addTimelineEntry, lockReferral, Referral, type TimelineActor } from '../referrals';
+import { appendCustody } from '../custody';
 import { carrierClient, classifyCarrierError, type ProviderTracker, type ProviderTrackingDetail } from './carrier';
 import { statusRank } from './dto';
 import { Shipment, ShipmentScan, ShippingWebhookEvent, type WebhookOutcome } from './entities';
@@ -170,6 +171,7 @@ export async function applyTracker(ctx: ServiceContext, manager: EntityManager, 
       details: { shipmentId: shipment.id, trackingCode: shipment.trackingCode, status: next, statusDetail: latest?.status_detail ?? null },
     });
   }
+  if (shipment.kind !== 'return' && (next === 'delivered' || previous === 'label_issued')) await appendCustody(manager, referral.id, { action: next === 'delivered' ? 'delivered' : 'handed_to_carrier', actor: carrier, location: where, at: eventAt, details: { shipmentId: shipment.id, trackingCode: shipment.trackingCode } });
   if (next === 'exception' && shipment.kind !== 'return') {
     const people: { email: string; name: string }[] = await manager.query(
       `SELECT email, name FROM users WHERE organization_id = $1 AND role IN ('partner_admin', 'partner_staff') AND status = 'active' ORDER BY email`,
