@@ -114,6 +114,8 @@ export interface ProviderPayment {
   currency: string;
   feeMinor: number;
   paidAt: Date;
+  /** When we learned of it (the demo seed writes the past); otherwise now. */
+  recordedAt?: Date;
 }
 
 /**
@@ -174,6 +176,7 @@ export async function applyPayment(ctx: ServiceContext, manager: EntityManager, 
     actor,
     // Written when the payment is recorded; the provider's own time (whole seconds) is kept beside it.
     details: { paymentIntentId: payment.paymentIntentId, amountMinor: checkout.amountMinor, feeMinor: payment.feeMinor, currency: checkout.currency, paidAt: payment.paidAt.toISOString() },
+    at: payment.recordedAt,
   };
   if (referral.status === 'approved') await moveCase(manager, referral, 'paid', entry);
   else {

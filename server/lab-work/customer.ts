@@ -139,7 +139,7 @@ export async function setReturnAddress(manager: EntityManager, referral: Referra
   const input = parseInput(returnAddressInput, rawInput);
   requireStatus(referral, ADDRESS_STATUSES, 'Changing the return address');
   const existing = await manager.findOneBy(CustomerReturnAddress, { referralId: referral.id });
-  const now = new Date();
+  const now = meta.now ?? new Date();
   await manager.save(
     manager.create(CustomerReturnAddress, {
       referralId: referral.id,

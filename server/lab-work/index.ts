@@ -3,10 +3,11 @@ import { registerPaymentHandlers } from './checkout';
 export { LabEvaluation, LabQuote, ImagingReport, RecoveredFileManifest, CustomerCheckout, CustomerReturnAddress } from './entities';
 export { labWorkRoutes, customerRoutes } from './routes';
 export { applyPayment, recordPayment, type PaymentOutcome, type ProviderPayment } from './checkout';
-export { recordEvaluation, startEvaluation } from './evaluation';
-export { sendQuote, approveQuote, declineQuote } from './quotes';
-export { reportImaging } from './imaging';
-export { uploadManifest, confirmFiles, disputeFiles } from './manifest';
+// Each step also runs in a caller's transaction (the …In forms), as the demo seed does.
+export { recordEvaluation, recordEvaluationIn, startEvaluation, startEvaluationIn, type StepMeta } from './evaluation';
+export { sendQuote, sendQuoteIn, approveQuote, declineQuote } from './quotes';
+export { reportImaging, reportImagingIn } from './imaging';
+export { uploadManifest, uploadManifestIn, confirmFiles, disputeFiles } from './manifest';
 export { asCustomer, setReturnAddress } from './customer';
 export type { LabPrincipal } from './access';
 

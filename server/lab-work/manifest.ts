@@ -17,6 +17,7 @@ import type { BlobStorage } from '../uploads';
 import { findLabCase, moveCase, requireStatus, resolveWorker, type LabPrincipal } from './access';
 import type { CustomerMeta } from './quotes';
 import { RecoveredFileManifest } from './entities';
+import type { StepMeta } from './evaluation';
 
 // The recovered-file list. The lab uploads a CSV (path,size,state); Platterpost keeps the file, groups
 // it into the customer's priority categories by file type (IANA media types through mime-db) and shows,
@@ -123,9 +124,23 @@ export async function uploadManifest(
   who: LabPrincipal,
   id: string,
   upload: ManifestUpload | null,
-  meta: { ip?: string | null } = {},
+  meta: StepMeta = {},
 ): Promise<string> {
   const rows = parseRows(decodeManifest(upload));
+  return ctx.db.transaction((manager) => uploadManifestIn(ctx, manager, storage, who, id, upload!.bytes, rows, meta));
+}
+
+/** The upload in the caller's transaction, for rows already parsed from these bytes. */
+export async function uploadManifestIn(
+  ctx: ServiceContext,
+  manager: EntityManager,
+  storage: BlobStorage,
+  who: LabPrincipal,
+  id: string,
+  bytes: Buffer,
+  rows: readonly ManifestRow[],
+  meta: StepMeta = {},
+): Promise<string> {
   const summary = summarizeManifest(rows);
   const examples = examplesOf(rows);
   const fileCount = rows.length;
@@ -134,69 +149,67 @@ export async function uploadManifest(
   const partial = summary.reduce((sum, s) => sum + s.partial, 0);
   const unreadable = summary.reduce((sum, s) => sum + s.unreadable, 0);
 
-  return ctx.db.transaction(async (manager) => {
-    const worker = await resolveWorker(manager, who);
-    const referral = await findLabCase(manager, worker.organizationId, id, { lock: true });
-    requireStatus(referral, ['recovering', 'ready_for_review'], 'Uploading the recovered-file list');
-    const previous = await currentManifest(manager, referral.id);
-    if (previous?.reviewStatus === 'confirmed') {
-      throw AppError.conflict('The customer has already confirmed the recovered files; the list can no longer be replaced.');
-    }
-    // The bytes first: should the transaction fail, a stored blob without a row is harmless (content-addressed).
-    const { key } = await storage.put(upload!.bytes);
-    if (previous) await manager.update(RecoveredFileManifest, previous.id, { reviewStatus: 'superseded' });
-    const now = new Date();
-    const manifest = await manager.save(
-      manager.create(RecoveredFileManifest, {
-        referralId: referral.id,
-        version: (previous?.version ?? 0) + 1,
-        contentHash: key,
-        sizeBytes: upload!.bytes.length,
-        fileCount,
-        totalBytes,
-        summary,
-        examples,
-        uploadedByType: worker.actor.type,
-        uploadedById: worker.actor.id,
-        uploadedByName: worker.actor.name,
-        uploadedAt: now,
-        reviewStatus: 'pending',
-        reviewedAt: null,
-        reviewNote: null,
-        reviewedIp: null,
-      }),
-    );
-    const counts = `${fileCount.toLocaleString('en-US')} ${fileCount === 1 ? 'file' : 'files'} (${intact.toLocaleString('en-US')} intact, ${partial.toLocaleString('en-US')} partly readable, ${unreadable.toLocaleString('en-US')} unreadable)`;
-    const entry = {
-      kind: 'files_ready',
-      summary: `${worker.actor.name} ${previous ? `replaced the recovered-file list (version ${manifest.version})` : 'uploaded the recovered-file list'}: ${counts}.`,
-      actor: worker.actor,
-      details: { manifestId: manifest.id, version: manifest.version, fileCount, totalBytes, intact, partial, unreadable },
-      at: now,
-    };
-    if (referral.status === 'recovering') await moveCase(manager, referral, 'ready_for_review', entry);
-    else await recordTimeline(manager, referral.id, entry);
+  const worker = await resolveWorker(manager, who);
+  const referral = await findLabCase(manager, worker.organizationId, id, { lock: true });
+  requireStatus(referral, ['recovering', 'ready_for_review'], 'Uploading the recovered-file list');
+  const previous = await currentManifest(manager, referral.id);
+  if (previous?.reviewStatus === 'confirmed') {
+    throw AppError.conflict('The customer has already confirmed the recovered files; the list can no longer be replaced.');
+  }
+  // The bytes first: should the transaction fail, a stored blob without a row is harmless (content-addressed).
+  const { key } = await storage.put(bytes);
+  if (previous) await manager.update(RecoveredFileManifest, previous.id, { reviewStatus: 'superseded' });
+  const now = meta.now ?? new Date();
+  const manifest = await manager.save(
+    manager.create(RecoveredFileManifest, {
+      referralId: referral.id,
+      version: (previous?.version ?? 0) + 1,
+      contentHash: key,
+      sizeBytes: bytes.length,
+      fileCount,
+      totalBytes,
+      summary,
+      examples,
+      uploadedByType: worker.actor.type,
+      uploadedById: worker.actor.id,
+      uploadedByName: worker.actor.name,
+      uploadedAt: now,
+      reviewStatus: 'pending',
+      reviewedAt: null,
+      reviewNote: null,
+      reviewedIp: null,
+    }),
+  );
+  const counts = `${fileCount.toLocaleString('en-US')} ${fileCount === 1 ? 'file' : 'files'} (${intact.toLocaleString('en-US')} intact, ${partial.toLocaleString('en-US')} partly readable, ${unreadable.toLocaleString('en-US')} unreadable)`;
+  const entry = {
+    kind: 'files_ready',
+    summary: `${worker.actor.name} ${previous ? `replaced the recovered-file list (version ${manifest.version})` : 'uploaded the recovered-file list'}: ${counts}.`,
+    actor: worker.actor,
+    details: { manifestId: manifest.id, version: manifest.version, fileCount, totalBytes, intact, partial, unreadable },
+    at: now,
+  };
+  if (referral.status === 'recovering') await moveCase(manager, referral, 'ready_for_review', entry);
+  else await recordTimeline(manager, referral.id, entry);
 
-    const lab = await manager.findOneBy(Organization, { id: worker.organizationId });
-    const link = await issueCustomerLink(manager, { referralId: referral.id, reason: 'files_ready', issuer: systemIssuer, appUrl: ctx.config.appUrl, now });
-    await enqueueEmail(manager, referral.customerEmail, 'customer_files_ready', {
-      customerName: referral.customerName,
-      reference: referral.reference,
-      labName: lab?.name ?? 'The lab',
-      fileCount: `${fileCount.toLocaleString('en-US')} ${fileCount === 1 ? 'file' : 'files'}`,
-      url: link.url,
-    });
-    await recordAudit(manager, {
-      action: 'lab_work.manifest_uploaded',
-      actorUserId: worker.userId,
-      organizationId: worker.organizationId,
-      targetType: 'referral',
-      targetId: referral.id,
-      details: { manifestId: manifest.id, version: manifest.version, fileCount, contentHash: key, via: worker.actor.type },
-      ip: meta.ip ?? null,
-    });
-    return referral.id;
+  const lab = await manager.findOneBy(Organization, { id: worker.organizationId });
+  const link = await issueCustomerLink(manager, { referralId: referral.id, reason: 'files_ready', issuer: systemIssuer, appUrl: ctx.config.appUrl, now });
+  await enqueueEmail(manager, referral.customerEmail, 'customer_files_ready', {
+    customerName: referral.customerName,
+    reference: referral.reference,
+    labName: lab?.name ?? 'The lab',
+    fileCount: `${fileCount.toLocaleString('en-US')} ${fileCount === 1 ? 'file' : 'files'}`,
+    url: link.url,
   });
+  await recordAudit(manager, {
+    action: 'lab_work.manifest_uploaded',
+    actorUserId: worker.userId,
+    organizationId: worker.organizationId,
+    targetType: 'referral',
+    targetId: referral.id,
+    details: { manifestId: manifest.id, version: manifest.version, fileCount, contentHash: key, via: worker.actor.type },
+    ip: meta.ip ?? null,
+  });
+  return referral.id;
 }
 
 async function reviewableManifest(manager: EntityManager, referral: Referral, manifestId: string): Promise<RecoveredFileManifest> {
@@ -216,7 +229,7 @@ async function reviewableManifest(manager: EntityManager, referral: Referral, ma
 export async function confirmFiles(manager: EntityManager, referral: Referral, rawInput: unknown, meta: CustomerMeta): Promise<void> {
   const input = parseInput(confirmFilesInput, rawInput);
   const manifest = await reviewableManifest(manager, referral, input.manifestId);
-  const now = new Date();
+  const now = meta.now ?? new Date();
   await manager.update(RecoveredFileManifest, manifest.id, { reviewStatus: 'confirmed', reviewedAt: now, reviewedIp: meta.ip });
   await manager.query(`UPDATE referrals SET updated_at = now() WHERE id = $1`, [referral.id]);
   await recordTimeline(manager, referral.id, {
@@ -240,7 +253,7 @@ export async function confirmFiles(manager: EntityManager, referral: Referral, r
 export async function disputeFiles(manager: EntityManager, referral: Referral, rawInput: unknown, meta: CustomerMeta): Promise<void> {
   const input = parseInput(disputeFilesInput, rawInput);
   const manifest = await reviewableManifest(manager, referral, input.manifestId);
-  const now = new Date();
+  const now = meta.now ?? new Date();
   await manager.update(RecoveredFileManifest, manifest.id, { reviewStatus: 'disputed', reviewedAt: now, reviewNote: input.note, reviewedIp: meta.ip });
   await manager.query(`UPDATE referrals SET updated_at = now() WHERE id = $1`, [referral.id]);
   await recordTimeline(manager, referral.id, {

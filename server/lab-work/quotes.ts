@@ -1,4 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
+import type { z } from 'zod';
 import { formatMoney } from '@shared/domain/money';
 import { approveQuoteInput, declineQuoteInput, QUOTE_TERMS_VERSION } from '@shared/schemas/customer';
 import { recoverabilityHints, sendQuoteInput, serviceLineKinds, type QuoteDto } from '@shared/schemas/lab-work';
@@ -11,6 +12,7 @@ import { enqueueEmail } from '../notifications';
 import { Organization } from '../organizations';
 import type { Referral } from '../referrals/entities';
 import { findLabCase, moveCase, requireStatus, resolveWorker, type LabPrincipal } from './access';
+import type { StepMeta } from './evaluation';
 import { LabEvaluation, LabQuote } from './entities';
 
 // The lab manager's quote and the customer's answer. The customer pays exactly the sum of the lines:
@@ -20,6 +22,8 @@ export interface CustomerMeta {
   ip: string | null;
   userAgent: string | null;
   linkId: string;
+  /** The demo seed's past time; otherwise now. */
+  now?: Date;
 }
 
 export function toQuoteDto(q: LabQuote): QuoteDto {
@@ -48,76 +52,85 @@ export async function currentQuote(manager: EntityManager, referralId: string): 
 }
 
 /** Sends a quote (or a revised one, which supersedes the open quote) and e-mails the customer the link. */
-export async function sendQuote(ctx: ServiceContext, who: LabPrincipal, id: string, rawInput: unknown, meta: { ip?: string | null } = {}): Promise<string> {
+export async function sendQuote(ctx: ServiceContext, who: LabPrincipal, id: string, rawInput: unknown, meta: StepMeta = {}): Promise<string> {
   const input = parseInput(sendQuoteInput, rawInput);
-  return ctx.db.transaction(async (manager) => {
-    const worker = await resolveWorker(manager, who);
-    const referral = await findLabCase(manager, worker.organizationId, id, { lock: true });
-    requireStatus(referral, ['evaluating', 'quote_sent', 'quote_declined'], 'Sending a quote');
-    const evaluation = await manager.findOneBy(LabEvaluation, { referralId: referral.id });
-    if (!evaluation) throw AppError.conflict('Record the evaluation before sending a quote: the customer sees it with the price.');
+  return ctx.db.transaction((manager) => sendQuoteIn(ctx, manager, who, id, input, meta));
+}
 
-    const previous = await manager.findOne(LabQuote, { where: { referralId: referral.id }, order: { version: 'DESC' } });
-    if (previous?.status === 'sent') await manager.update(LabQuote, previous.id, { status: 'superseded' });
-    const lines = input.lines.map((l) => ({ kind: l.kind, skill: l.skill ?? null, description: l.description, amountMinor: l.amountMinor }));
-    const totalMinor = lines.reduce((sum, l) => sum + l.amountMinor, 0);
-    const serviceLinesMinor = lines.filter((l) => serviceLineKinds.includes(l.kind)).reduce((sum, l) => sum + l.amountMinor, 0);
-    const now = new Date();
-    const quote = await manager.save(
-      manager.create(LabQuote, {
-        referralId: referral.id,
-        version: (previous?.version ?? 0) + 1,
-        status: 'sent',
-        currency: input.currency,
-        lines,
-        totalMinor,
-        serviceLinesMinor,
-        note: input.note || null,
-        sentAt: now,
-        sentByUserId: worker.userId,
-        sentByName: worker.actor.name,
-        approvedAt: null,
-        approvedName: null,
-        approvedIp: null,
-        approvedUserAgent: null,
-        termsVersion: null,
-        declinedAt: null,
-        declineReason: null,
-      }),
-    );
-    const total = formatMoney(totalMinor, input.currency);
-    await moveCase(manager, referral, 'quote_sent', {
-      kind: 'quote_sent',
-      summary: `${worker.actor.name} sent ${quote.version > 1 ? `a revised quote (version ${quote.version})` : 'the quote'}: ${total}.`,
-      actor: worker.actor,
-      details: { quoteId: quote.id, version: quote.version, totalMinor, serviceLinesMinor, currency: input.currency },
-      at: now,
-    });
-    const [lab, shop] = await Promise.all([
-      manager.findOneBy(Organization, { id: worker.organizationId }),
-      manager.findOneBy(Organization, { id: referral.partnerOrganizationId }),
-    ]);
-    const link = await issueCustomerLink(manager, { referralId: referral.id, reason: 'quote_sent', issuer: systemIssuer, appUrl: ctx.config.appUrl, now });
-    await enqueueEmail(manager, referral.customerEmail, 'customer_quote_ready', {
-      customerName: referral.customerName,
-      reference: referral.reference,
-      labName: lab?.name ?? 'The lab',
-      shopName: shop?.name ?? 'your repair shop',
-      total,
-      recoverability: recoverabilityHints[evaluation.recoverability],
-      url: link.url,
-    });
-    await recordAudit(manager, {
-      action: 'lab_work.quote_sent',
-      actorUserId: worker.userId,
-      organizationId: worker.organizationId,
-      targetType: 'referral',
-      targetId: referral.id,
-      details: { quoteId: quote.id, version: quote.version, totalMinor, currency: input.currency },
-      ip: meta.ip ?? null,
-    });
-    return referral.id;
+export async function sendQuoteIn(
+  ctx: ServiceContext,
+  manager: EntityManager,
+  who: LabPrincipal,
+  id: string,
+  input: z.output<typeof sendQuoteInput>,
+  meta: StepMeta = {},
+): Promise<string> {
+  const worker = await resolveWorker(manager, who);
+  const referral = await findLabCase(manager, worker.organizationId, id, { lock: true });
+  requireStatus(referral, ['evaluating', 'quote_sent', 'quote_declined'], 'Sending a quote');
+  const evaluation = await manager.findOneBy(LabEvaluation, { referralId: referral.id });
+  if (!evaluation) throw AppError.conflict('Record the evaluation before sending a quote: the customer sees it with the price.');
+
+  const previous = await manager.findOne(LabQuote, { where: { referralId: referral.id }, order: { version: 'DESC' } });
+  if (previous?.status === 'sent') await manager.update(LabQuote, previous.id, { status: 'superseded' });
+  const lines = input.lines.map((l) => ({ kind: l.kind, skill: l.skill ?? null, description: l.description, amountMinor: l.amountMinor }));
+  const totalMinor = lines.reduce((sum, l) => sum + l.amountMinor, 0);
+  const serviceLinesMinor = lines.filter((l) => serviceLineKinds.includes(l.kind)).reduce((sum, l) => sum + l.amountMinor, 0);
+  const now = meta.now ?? new Date();
+  const quote = await manager.save(
+    manager.create(LabQuote, {
+      referralId: referral.id,
+      version: (previous?.version ?? 0) + 1,
+      status: 'sent',
+      currency: input.currency,
+      lines,
+      totalMinor,
+      serviceLinesMinor,
+      note: input.note || null,
+      sentAt: now,
+      sentByUserId: worker.userId,
+      sentByName: worker.actor.name,
+      approvedAt: null,
+      approvedName: null,
+      approvedIp: null,
+      approvedUserAgent: null,
+      termsVersion: null,
+      declinedAt: null,
+      declineReason: null,
+    }),
+  );
+  const total = formatMoney(totalMinor, input.currency);
+  await moveCase(manager, referral, 'quote_sent', {
+    kind: 'quote_sent',
+    summary: `${worker.actor.name} sent ${quote.version > 1 ? `a revised quote (version ${quote.version})` : 'the quote'}: ${total}.`,
+    actor: worker.actor,
+    details: { quoteId: quote.id, version: quote.version, totalMinor, serviceLinesMinor, currency: input.currency },
+    at: now,
   });
+  const [lab, shop] = await Promise.all([
+    manager.findOneBy(Organization, { id: worker.organizationId }),
+    manager.findOneBy(Organization, { id: referral.partnerOrganizationId }),
+  ]);
+  const link = await issueCustomerLink(manager, { referralId: referral.id, reason: 'quote_sent', issuer: systemIssuer, appUrl: ctx.config.appUrl, now });
+  await enqueueEmail(manager, referral.customerEmail, 'customer_quote_ready', {
+    customerName: referral.customerName,
+    reference: referral.reference,
+    labName: lab?.name ?? 'The lab',
+    shopName: shop?.name ?? 'your repair shop',
+    total,
+    recoverability: recoverabilityHints[evaluation.recoverability],
+    url: link.url,
+  });
+  await recordAudit(manager, {
+    action: 'lab_work.quote_sent',
+    actorUserId: worker.userId,
+    organizationId: worker.organizationId,
+    targetType: 'referral',
+    targetId: referral.id,
+    details: { quoteId: quote.id, version: quote.version, totalMinor, currency: input.currency },
+    ip: meta.ip ?? null,
+  });
+  return referral.id;
 }
 
 /** The open quote the customer answers; a stale page (an older version) is told to reload. */
@@ -136,7 +149,7 @@ async function openQuote(manager: EntityManager, referral: Referral, quoteId: st
 export async function approveQuote(manager: EntityManager, referral: Referral, rawInput: unknown, meta: CustomerMeta): Promise<void> {
   const input = parseInput(approveQuoteInput, rawInput);
   const quote = await openQuote(manager, referral, input.quoteId);
-  const now = new Date();
+  const now = meta.now ?? new Date();
   await manager.update(LabQuote, quote.id, {
     status: 'approved',
     approvedAt: now,
@@ -165,7 +178,7 @@ export async function approveQuote(manager: EntityManager, referral: Referral, r
 export async function declineQuote(manager: EntityManager, referral: Referral, rawInput: unknown, meta: CustomerMeta): Promise<void> {
   const input = parseInput(declineQuoteInput, rawInput);
   const quote = await openQuote(manager, referral, input.quoteId);
-  const now = new Date();
+  const now = meta.now ?? new Date();
   await manager.update(LabQuote, quote.id, { status: 'declined', declinedAt: now, declineReason: input.reason || null });
   await moveCase(manager, referral, 'quote_declined', {
     kind: 'quote_declined',
