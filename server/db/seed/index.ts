@@ -7,6 +7,7 @@ import { DEMO_PASSWORD, demoAccounts } from './demo-accounts';
 import { seedDemoApiKeys } from './demo-api-keys';
 import { seedDemoCases } from './demo-cases';
 import { seedDemoLabs } from './demo-labs';
+import { seedDemoLabWork } from './demo-lab-work';
 import { seedDemoShipments } from './demo-shipments';
 import { seedDemoMoney } from './demo-money';
 import { demoExtraStaff, demoOrganizations } from './demo-data';
@@ -57,6 +58,8 @@ export async function seedDemo(db: DataSource, config: Config = loadConfig()): P
     await seedDemoCases(manager, orgIds, { config, passwordHash, now });
     // Boxes for accepted demo cases in several tracking states (marked historical: see demo-shipments.ts).
     await seedDemoShipments(manager, { now, ssccCompanyPrefix: config.shipping.ssccCompanyPrefix });
+    // Quillmark's bench: a case at each stage of the lab's work and the customer's side.
+    await seedDemoLabWork(manager, orgIds, { config, now });
     // Commission plans, four months of paid demo cases in the ledger, the three oldest settled.
     await seedDemoMoney(manager, orgIds, now);
     return { seeded: true };
