@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   commissionForCase,
   formatBasisPoints,
+  formatPeriod,
   periodBounds,
   periodOf,
   previousPeriod,
@@ -193,6 +194,11 @@ describe('periods', () => {
     expect(periodOf(new Date('2025-11-30T23:59:59.999Z'))).toBe('2025-11');
     expect(previousPeriod(new Date('2026-01-01T06:00:00Z'))).toBe('2025-12');
     expect(() => periodBounds('2025-13')).toThrow(/YYYY-MM/);
+  });
+
+  it('names a period for people', () => {
+    expect(formatPeriod('2025-11')).toBe('November 2025');
+    expect(formatPeriod('2026-01', 'short')).toBe('Jan');
   });
 
   it('formats basis points as a percentage', () => {

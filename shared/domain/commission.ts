@@ -207,3 +207,9 @@ export function formatBasisPoints(basisPoints: number): string {
   const percent = (basisPoints / BASIS_POINTS_PER_WHOLE) * 100;
   return `${Number.isInteger(percent) ? percent : percent.toFixed(2).replace(/0+$/, '')} %`;
 }
+
+/** A period for people: "2025-11" → "November 2025" (long) or "Nov" (short, for chart labels). */
+export function formatPeriod(period: string, style: 'long' | 'short' = 'long'): string {
+  const { start } = periodBounds(period);
+  return new Intl.DateTimeFormat('en-US', style === 'long' ? { month: 'long', year: 'numeric', timeZone: 'UTC' } : { month: 'short', timeZone: 'UTC' }).format(start);
+}

@@ -94,6 +94,7 @@ export const payoutAccountDto = z.object({
 });
 export type PayoutAccountDto = z.infer<typeof payoutAccountDto>;
 export const payoutOnboardingDto = z.object({ url: z.string(), account: payoutAccountDto });
+export type PayoutOnboardingDto = z.infer<typeof payoutOnboardingDto>;
 
 /** POST /api/partner/payout-account and /api/lab/payout-account: where the hosted pages send the person back. */
 export const payoutOnboardingInput = z.object({}).default({});

@@ -1,14 +1,22 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getSettlementOverviewQueryOptions } from '@/features/settlement/api/get-settlement-overview';
+import { SettlementOverview } from '@/features/settlement/components/settlement-overview';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  // A failure here is shown by the page itself, with a retry, inside the portal.
+  await queryClient.ensureQueryData(getSettlementOverviewQueryOptions()).catch(() => undefined);
+  return null;
+};
+
+export default function SettlementPage() {
   return (
-    <PlaceholderPage
-      title="Settlement"
-      description="Monthly commission runs: what each shop is owed and what has been paid."
-      upcoming={[
-        'The current month’s draft run, with each shop’s total and the cases behind it.',
-        'Past runs, their statements and the payouts they produced.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="Settlement"
+        description="Monthly payouts: commission to every shop and its share to every lab, one transfer each, never twice."
+      />
+      <SettlementOverview />
+    </>
   );
 }

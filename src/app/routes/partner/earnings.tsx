@@ -1,14 +1,25 @@
-import { PlaceholderPage } from '@/components/layouts/placeholder-page';
+import type { QueryClient } from '@tanstack/react-query';
+import { useSearchParams } from 'react-router';
+import { PageHeader } from '@/components/layouts/page-header';
+import { getEarningsQueryOptions } from '@/features/earnings/api/get-earnings';
+import { EarningsOverview } from '@/features/earnings/components/earnings-overview';
 
-export default function Page() {
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  // A failure here is shown by the page itself, with a retry, inside the portal.
+  await queryClient.ensureQueryData(getEarningsQueryOptions()).catch(() => undefined);
+  return null;
+};
+
+export default function EarningsPage() {
+  const [params] = useSearchParams();
+  const back = params.get('payouts');
   return (
-    <PlaceholderPage
-      title="Earnings"
-      description="Commission your shop has earned on paid recoveries, settled once a month."
-      upcoming={[
-        'This month’s running commission and the cases it comes from.',
-        'Monthly statements you can reconcile line by line, and the payout account they are paid to.',
-      ]}
-    />
+    <>
+      <PageHeader
+        title="Earnings"
+        description="Commission on every paid recovery you referred, settled once a month to your payout account."
+      />
+      <EarningsOverview returned={back === 'returned' || back === 'refresh' ? back : null} />
+    </>
   );
 }
