@@ -9,6 +9,7 @@ import {
 } from '@shared/schemas/partner-api';
 import { referralDto, referralInput, referralListDto, referralListQuery, routingPreviewDto, routingPreviewInput } from '@shared/schemas/referrals';
 import { caseStatuses } from '@shared/vocabulary';
+import { buyShipmentInput, createShipmentInput, shipmentDto } from '@shared/schemas/shipping';
 import type { Config } from '../config';
 import * as ex from './openapi-examples';
 import { registerWebhookEvents } from '../webhooks/openapi';
@@ -232,6 +233,77 @@ export const partnerApiPaths: RouteConfig[] = [
   },
 ];
 
+const Shipment = shipmentDto.meta({ id: 'Shipment', description: 'A box on its way: rates before purchase, then tracking code, label and scans.' });
+const shipmentIdParams = z.object({ id: z.string().uuid().meta({ description: 'The shipment’s id' }) });
+const pdf = { 'application/pdf': { schema: z.string().meta({ format: 'binary' }) } };
+const shipmentNotFound = { description: 'No such shipment for this partner.', content: json(ApiError, ex.errorExamples.notFound) };
+
+/** The shipment routes, mounted at /api/v1 by the shipping component with the same key, limit and idempotency. */
+export const shipmentApiPaths: RouteConfig[] = [
+  {
+    method: 'post',
+    path: '/api/v1/referrals/{id}/shipments',
+    tags: ['Shipping'],
+    summary: 'Get rates for the box to the lab',
+    description:
+      'Once a lab has accepted the case: the box’s inner size (or a preset) and packed weight give prepaid rates, ground and air. ' +
+      'Air is left out when the declared battery may not fly; a battery over 100 Wh is refused with the reason.',
+    security: SECURITY,
+    request: { params: idParams, headers: idempotencyHeader, body: { required: true, content: json(createShipmentInput) } },
+    responses: { 201: { description: 'The shipment with its rates', content: json(Shipment) }, 400: errors[400], 401: errors[401], 404: notFound, 409: conflict, 429: errors[429] },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/shipments/{id}',
+    tags: ['Shipping'],
+    summary: 'Read a shipment',
+    description: 'Status, tracking code, label link and scans.',
+    security: SECURITY,
+    request: { params: shipmentIdParams },
+    responses: { 200: { description: 'The shipment', content: json(Shipment) }, 401: errors[401], 404: shipmentNotFound, 429: errors[429] },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/shipments/{id}/buy',
+    tags: ['Shipping'],
+    summary: 'Buy a rate (the network pays)',
+    description: 'Buys the chosen rate once; a retry after an error or a timeout reads the purchase back instead of buying twice.',
+    security: SECURITY,
+    request: { params: shipmentIdParams, headers: idempotencyHeader, body: { required: true, content: json(buyShipmentInput) } },
+    responses: { 200: { description: 'The bought shipment with its tracking code and label URL', content: json(Shipment) }, 400: errors[400], 401: errors[401], 404: shipmentNotFound, 409: conflict, 429: errors[429] },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/shipments/{id}/void',
+    tags: ['Shipping'],
+    summary: 'Void a label before its first scan',
+    description: 'Cancels an unused label; once the carrier has scanned the box it can no longer be voided (409).',
+    security: SECURITY,
+    request: { params: shipmentIdParams, headers: idempotencyHeader },
+    responses: { 200: { description: 'The voided shipment', content: json(Shipment) }, 401: errors[401], 404: shipmentNotFound, 409: conflict, 429: errors[429] },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/shipments/{id}/label',
+    tags: ['Shipping'],
+    summary: 'The label (4 × 6 in PDF)',
+    description: 'The carrier’s prepaid label for the bought rate, answered to the same API key.',
+    security: SECURITY,
+    request: { params: shipmentIdParams },
+    responses: { 200: { description: 'The carrier’s label', content: pdf }, 401: errors[401], 404: shipmentNotFound, 429: errors[429] },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/shipments/{id}/packing-slip',
+    tags: ['Shipping'],
+    summary: 'The packing slip (4 × 6 in PDF)',
+    description: 'Case reference as barcode and QR code, the lab’s receiving address, the packing rules and the battery mark where one applies.',
+    security: SECURITY,
+    request: { params: shipmentIdParams },
+    responses: { 200: { description: 'The packing slip', content: pdf }, 401: errors[401], 404: shipmentNotFound, 429: errors[429] },
+  },
+];
+
 let cached: { url: string; doc: ReturnType<OpenApiGeneratorV31['generateDocument']> } | undefined;
 
 export function openApiDocument(config: Pick<Config, 'appUrl'>) {
@@ -243,7 +315,7 @@ export function openApiDocument(config: Pick<Config, 'appUrl'>) {
     bearerFormat: 'ppk_live_<prefix>_<secret>',
     description: 'A partner API key, created by a shop admin under Settings → API keys. It is shown once; keep it secret.',
   });
-  for (const route of partnerApiPaths) registry.registerPath(route);
+  for (const route of [...partnerApiPaths, ...shipmentApiPaths]) registry.registerPath(route);
   registerWebhookEvents(registry);
   const doc = new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
@@ -260,6 +332,7 @@ export function openApiDocument(config: Pick<Config, 'appUrl'>) {
     tags: [
       { name: 'Referrals', description: 'Cases opened by your shop' },
       { name: 'Routing', description: 'Triage and lab ranking without a case' },
+      { name: 'Shipping', description: 'Prepaid labels and tracking for the box to the lab' },
       { name: 'Meta', description: 'About the API itself' },
       { name: 'Webhooks', description: 'Signed events sent to your endpoints as your cases change' },
     ],

@@ -6,6 +6,7 @@ import { apiErrorSchema } from '@shared/schemas/api-error';
 import { referralDto, referralInput, referralListDto, routingPreviewDto, routingPreviewInput } from '@shared/schemas/referrals';
 import { referralPhotoDto } from '@shared/schemas/partner-api';
 import { partnerApiRoutes } from '../../server/partner-api';
+import { shippingPartnerApiRoutes } from '../../server/shipping';
 import * as ex from '../../server/partner-api/openapi-examples';
 import { setupApi } from '../support/api';
 
@@ -46,7 +47,9 @@ describe('the partner API’s OpenAPI document', () => {
 
   it('describes every route the /api/v1 router mounts, and no route it does not', async () => {
     const doc = await fetchDoc();
-    const mounted = mountedRoutes(partnerApiRoutes({ config, db: undefined as never })).sort();
+    // Both routers mounted at /api/v1: the partner API's own and the shipping component's.
+    const ctx = { config, db: undefined as never };
+    const mounted = [...mountedRoutes(partnerApiRoutes(ctx)), ...mountedRoutes(shippingPartnerApiRoutes(ctx))].sort();
     expect(mounted.length).toBeGreaterThan(5);
     expect(documentedRoutes(doc).sort()).toEqual(mounted);
   });
