@@ -66,14 +66,21 @@ function inMonth(now: Date, monthsAgo: number, day: number): Date {
 
 const demoId = (prefix: string, text: string) => `${prefix}_demo_${createHash('sha256').update(text).digest('hex').slice(0, 20)}`;
 
-export async function seedDemoMoney(manager: EntityManager, orgIds: Map<string, string>, now: Date): Promise<void> {
-  const org = (key: string) => {
+function orgOf(orgIds: Map<string, string>) {
+  return (key: string) => {
     const id = orgIds.get(key);
     if (!id) throw new Error(`demo money: unknown organisation ${key}`);
     return id;
   };
-  const [admin]: { id: string }[] = await manager.query(`SELECT id FROM users WHERE email = 'ines.albright@platterpost.example'`);
+}
 
+/**
+ * The commission plans, before any demo case is paid (other demo seeds pay cases through the ledger too):
+ * Standard is the default; Juniper Lane and Bramblewood are on the founding shops' plan.
+ */
+export async function seedDemoCommissionPlans(manager: EntityManager, orgIds: Map<string, string>, now: Date): Promise<void> {
+  const org = orgOf(orgIds);
+  const [admin]: { id: string }[] = await manager.query(`SELECT id FROM users WHERE email = 'ines.albright@platterpost.example'`);
   await manager.save(
     manager.create(CommissionPlan, {
       name: 'Standard',
@@ -104,6 +111,11 @@ export async function seedDemoMoney(manager: EntityManager, orgIds: Map<string, 
   for (const shop of ['juniper-lane', 'bramblewood']) {
     await manager.save(manager.create(PartnerCommissionPlan, { partnerOrganizationId: org(shop), planId: founding.id, assignedById: admin?.id ?? null, assignedAt: inMonth(now, 5, 1) }));
   }
+}
+
+export async function seedDemoMoney(manager: EntityManager, orgIds: Map<string, string>, now: Date): Promise<void> {
+  const org = orgOf(orgIds);
+  if (!(await manager.existsBy(CommissionPlan, { isDefault: true }))) await seedDemoCommissionPlans(manager, orgIds, now);
 
   // Cases and payments, oldest first (tiers count earlier payments), then refunds.
   const refunds: { referralId: string; amountMinor: number; at: Date; ref: string }[] = [];
