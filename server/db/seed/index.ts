@@ -9,7 +9,7 @@ import { seedDemoCases } from './demo-cases';
 import { seedDemoLabs } from './demo-labs';
 import { seedDemoLabWork } from './demo-lab-work';
 import { seedDemoShipments } from './demo-shipments';
-import { seedDemoMoney } from './demo-money';
+import { seedDemoCommissionPlans, seedDemoMoney } from './demo-money';
 import { demoExtraStaff, demoOrganizations } from './demo-data';
 
 /**
@@ -54,6 +54,8 @@ export async function seedDemo(db: DataSource, config: Config = loadConfig()): P
     }
     await seedDemoApiKeys(manager, orgIds);
     const now = new Date();
+    // Commission plans first: the demo cases that get paid below accrue commission under them.
+    await seedDemoCommissionPlans(manager, orgIds, now);
     await seedDemoLabs(manager, orgIds, now);
     await seedDemoCases(manager, orgIds, { config, passwordHash, now });
     // Boxes for accepted demo cases in several tracking states (marked historical: see demo-shipments.ts).
