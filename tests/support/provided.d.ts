@@ -5,6 +5,8 @@ declare module 'vitest' {
     appUrl: string;
     /** The browser suite's shipping fake (its /_fake/clock moves tracking on). */
     shippingFakeUrl: string;
+    /** The browser suite's payments fake (hosted onboarding and payment pages, /_fake controls). */
+    paymentsFakeUrl: string;
     mailApiUrl: string;
     smtpPort: number;
   }

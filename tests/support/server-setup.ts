@@ -2,6 +2,7 @@ import { spawn } from 'node:child_process';
 import { createServer } from 'node:net';
 import path from 'node:path';
 import type { TestProject } from 'vitest/node';
+import { createPaymentsFake } from '../../fakes/payments/payments-fake';
 
 async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
@@ -31,6 +32,15 @@ export default async function setup(project: TestProject) {
     env: { ...process.env, ...shippingEnv, SHIPPING_FAKE_PORT: String(shippingPort), SHIPPING_CLOCK_SPEED: '0' },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
+  // The payments fake for the browser suite, in this process; it posts its signed events to this server.
+  const paymentsEnv = { PAYMENTS_SECRET_KEY: 'sk_test_e2e_payments', PAYMENTS_WEBHOOK_SECRET: 'whsec_e2e_payments' };
+  const paymentsFake = createPaymentsFake({
+    port: 0,
+    secretKey: paymentsEnv.PAYMENTS_SECRET_KEY,
+    webhookSecret: paymentsEnv.PAYMENTS_WEBHOOK_SECRET,
+    webhookUrl: `${appUrl}/api/webhooks/payments`,
+  });
+  const { url: paymentsUrl } = await paymentsFake.start();
   const child = spawn(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'server/index.ts'], {
     env: {
       ...process.env,
@@ -41,6 +51,8 @@ export default async function setup(project: TestProject) {
       LOG_LEVEL: 'warn',
       ...shippingEnv,
       SHIPPING_API_URL: `${shippingUrl}/v2/`,
+      ...paymentsEnv,
+      PAYMENTS_API_URL: paymentsUrl,
     },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
@@ -65,8 +77,10 @@ export default async function setup(project: TestProject) {
   }
   project.provide('appUrl', appUrl);
   project.provide('shippingFakeUrl', shippingUrl);
+  project.provide('paymentsFakeUrl', paymentsUrl);
   return async () => {
     shippingFake.kill('SIGTERM');
+    await paymentsFake.stop();
     await new Promise<void>((resolve) => {
       child.once('exit', () => resolve());
       child.kill('SIGTERM');
