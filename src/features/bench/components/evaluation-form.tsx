@@ -52,7 +52,7 @@ function defaultsFor(labCase: LabCaseDto) {
 const conditionOptions = partConditions.map((c) => ({ value: c, label: partConditionLabels[c] }));
 
 /** Findings per part, how much can come back, and the plan. "None" ends the case with no charge. */
-export function EvaluationForm({ labCase }: { labCase: LabCaseDto }) {
+export function EvaluationForm({ labCase, onRecorded }: { labCase: LabCaseDto; onRecorded?: () => void }) {
   const record = useRecordEvaluation();
   return (
     <Form
@@ -62,6 +62,7 @@ export function EvaluationForm({ labCase }: { labCase: LabCaseDto }) {
       onSubmit={async (values) => {
         const saved = await record.mutateAsync({ id: labCase.id, values });
         toast.success(saved.status === 'no_recovery' ? 'Recorded: no recovery possible' : 'Evaluation recorded');
+        onRecorded?.();
       }}
     >
       {({ register, watch, formState: { errors } }) => (
@@ -72,11 +73,17 @@ export function EvaluationForm({ labCase }: { labCase: LabCaseDto }) {
               <p className="text-sm text-brick-text">{errors.findings?.root?.message ?? errors.findings?.message}</p>
             ) : null}
             {evaluationParts.map((part, i) => (
-              <div key={part} className="grid gap-3 sm:grid-cols-[14rem_12rem_minmax(0,1fr)] sm:items-start">
+              <div key={part} className="grid gap-3 sm:grid-cols-[13rem_minmax(0,1fr)] sm:items-start">
                 <input type="hidden" {...register(`findings.${i}.part` as const)} />
-                <p className="pt-2 text-sm font-medium text-ink sm:pt-8">{evaluationPartLabels[part]}</p>
-                <Select label="Condition" options={conditionOptions} error={errors.findings?.[i]?.condition?.message} {...register(`findings.${i}.condition` as const)} />
-                <Input label="Note" optional placeholder={watch(`findings.${i}.condition` as const) === 'failed' ? 'What failed' : ''} error={errors.findings?.[i]?.note?.message} {...register(`findings.${i}.note` as const)} />
+                <Select label={evaluationPartLabels[part]} options={conditionOptions} error={errors.findings?.[i]?.condition?.message} {...register(`findings.${i}.condition` as const)} />
+                <Input
+                  label="Note"
+                  aria-label={`Note on ${evaluationPartLabels[part].toLowerCase()}`}
+                  optional
+                  placeholder={watch(`findings.${i}.condition` as const) === 'failed' ? 'What failed' : ''}
+                  error={errors.findings?.[i]?.note?.message}
+                  {...register(`findings.${i}.note` as const)}
+                />
               </div>
             ))}
           </fieldset>

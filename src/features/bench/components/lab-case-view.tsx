@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { evaluationPartLabels, partConditionLabels, recoverabilityHints, recoverabilityLabels, type LabCaseDto } from '@shared/schemas/lab-work';
 import { formatMoney } from '@shared/domain/money';
 import { mediaTypeLabels, priorityCategoryLabels, sensitivityLabels, symptomLabels } from '@shared/vocabulary';
@@ -69,10 +69,34 @@ function StartEvaluation({ labCase }: { labCase: LabCaseDto }) {
   );
 }
 
+function EvaluationSummary({ evaluation }: { evaluation: NonNullable<LabCaseDto['evaluation']> }) {
+  return (
+    <div className="flex flex-col gap-3 text-sm">
+      <p>
+        <span className="font-semibold text-ink-strong">Recoverability: {recoverabilityLabels[evaluation.recoverability]}</span> — {recoverabilityHints[evaluation.recoverability]}
+      </p>
+      <ul className="flex flex-col gap-1">
+        {evaluation.findings
+          .filter((f) => f.condition !== 'not_applicable' && f.condition !== 'not_checked')
+          .map((f) => (
+            <li key={f.part}>
+              {evaluationPartLabels[f.part]}: <span className="font-medium">{partConditionLabels[f.condition]}</span>
+              {f.note ? <span className="text-ink-muted"> — {f.note}</span> : null}
+            </li>
+          ))}
+      </ul>
+      <p className="whitespace-pre-line text-ink">{evaluation.plan}</p>
+    </div>
+  );
+}
+
 function EvaluationSection({ labCase }: { labCase: LabCaseDto }) {
   const can = useCan();
   const editable = can('bench.work') && (labCase.status === 'received' || labCase.status === 'evaluating');
   const evaluation = labCase.evaluation;
+  // A recorded evaluation is shown as it stands; while the case is still being evaluated it can be changed.
+  const [changing, setChanging] = useState(false);
+  const showForm = editable && (!evaluation || changing);
   return (
     <Card title="Evaluation" description={evaluation ? `Recorded ${formatDateTime(evaluation.recordedAt)} by ${evaluation.recordedBy}` : undefined}>
       {labCase.status === 'received' && editable ? (
@@ -81,24 +105,18 @@ function EvaluationSection({ labCase }: { labCase: LabCaseDto }) {
           <span className="text-sm text-ink-muted">or record the findings straight away below.</span>
         </div>
       ) : null}
-      {editable ? (
-        <EvaluationForm labCase={labCase} />
+      {showForm ? (
+        <EvaluationForm labCase={labCase} onRecorded={() => setChanging(false)} />
       ) : evaluation ? (
-        <div className="flex flex-col gap-3 text-sm">
-          <p>
-            <span className="font-semibold text-ink-strong">Recoverability: {recoverabilityLabels[evaluation.recoverability]}</span> — {recoverabilityHints[evaluation.recoverability]}
-          </p>
-          <ul className="flex flex-col gap-1">
-            {evaluation.findings
-              .filter((f) => f.condition !== 'not_applicable')
-              .map((f) => (
-                <li key={f.part}>
-                  {evaluationPartLabels[f.part]}: <span className="font-medium">{partConditionLabels[f.condition]}</span>
-                  {f.note ? <span className="text-ink-muted"> — {f.note}</span> : null}
-                </li>
-              ))}
-          </ul>
-          <p className="whitespace-pre-line text-ink">{evaluation.plan}</p>
+        <div className="flex flex-col gap-4">
+          <EvaluationSummary evaluation={evaluation} />
+          {editable ? (
+            <div>
+              <Button variant="secondary" size="sm" onClick={() => setChanging(true)}>
+                Change the evaluation
+              </Button>
+            </div>
+          ) : null}
         </div>
       ) : (
         <p className="text-sm text-ink-muted">Not evaluated yet.</p>

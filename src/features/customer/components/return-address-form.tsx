@@ -32,7 +32,7 @@ export function ReturnAddressForm({ token, page }: { token: string; page: Custom
         <>
           <div className="grid gap-4 sm:grid-cols-2">
             <Input label="Name" autoComplete="name" error={errors.name?.message} {...register('name')} />
-            <Input label="Phone" optional autoComplete="tel" hint="For the carrier, if it needs to reach you" error={errors.phone?.message} {...register('phone')} />
+            <Input label="Phone" optional autoComplete="tel" error={errors.phone?.message} {...register('phone')} />
             <Input label="Street address" autoComplete="address-line1" error={errors.line1?.message} {...register('line1')} />
             <Input label="Apartment, suite" optional autoComplete="address-line2" error={errors.line2?.message} {...register('line2')} />
             <Input label="City" autoComplete="address-level2" error={errors.city?.message} {...register('city')} />

@@ -31,7 +31,7 @@ function defaults(labCase: LabCaseDto): QuoteFormValues {
 }
 
 /** The lab manager's quote: work by skill, new media for the data, return shipping and an optional expedite line. */
-export function QuoteForm({ labCase }: { labCase: LabCaseDto }) {
+export function QuoteForm({ labCase, onSent }: { labCase: LabCaseDto; onSent?: () => void }) {
   const send = useSendQuote();
   return (
     <Form
@@ -41,6 +41,7 @@ export function QuoteForm({ labCase }: { labCase: LabCaseDto }) {
       onSubmit={async (values) => {
         await send.mutateAsync({ id: labCase.id, values: toSendQuoteInput(values) });
         toast.success('Quote sent', 'The customer has an e-mail with the private link to approve it.');
+        onSent?.();
       }}
     >
       {(form) => <QuoteFields form={form} revising={labCase.quote !== null} pending={send.isPending} />}
@@ -69,26 +70,35 @@ function QuoteFields({ form, revising, pending }: { form: FormMethods<typeof quo
         {fields.map((field, i) => {
           const kind = lines[i]?.kind ?? field.kind;
           return (
-            <div key={field.id} className="grid gap-3 rounded-control border border-ink-hairline p-3 sm:grid-cols-[12rem_minmax(0,1fr)_9rem_auto] sm:items-start">
+            <div key={field.id} className="flex flex-col gap-3 rounded-control border border-ink-hairline p-3">
               <input type="hidden" {...register(`lines.${i}.kind` as const)} />
-              {kind === 'service' ? (
-                <Select label="Skill" options={skillOptions} placeholder="Choose a skill" error={errors.lines?.[i]?.skill?.message} {...register(`lines.${i}.skill` as const)} />
-              ) : (
-                <p className="text-sm font-semibold text-ink-strong sm:pt-8">{quoteLineKindLabels[kind]}</p>
-              )}
-              <Input
-                label="Description"
-                placeholder={kind === 'target_media' ? 'e.g. 1 TB USB 3.2 external drive' : undefined}
-                error={errors.lines?.[i]?.description?.message}
-                {...register(`lines.${i}.description` as const)}
-              />
-              <Input label="Amount (USD)" inputMode="decimal" placeholder="0.00" error={errors.lines?.[i]?.amount?.message} {...register(`lines.${i}.amount` as const)} />
-              <div className="sm:pt-7">
+              <div className="flex flex-wrap items-end justify-between gap-3">
+                {kind === 'service' ? (
+                  <Select
+                    label="Recovery work: skill"
+                    className="w-full sm:w-72"
+                    options={skillOptions}
+                    placeholder="Choose a skill"
+                    error={errors.lines?.[i]?.skill?.message}
+                    {...register(`lines.${i}.skill` as const)}
+                  />
+                ) : (
+                  <p className="text-sm font-semibold text-ink-strong">{quoteLineKindLabels[kind]}</p>
+                )}
                 {kind === 'service' || kind === 'expedite' ? (
                   <Button variant="ghost" size="sm" onClick={() => remove(i)} aria-label={`Remove line ${i + 1}`}>
                     Remove
                   </Button>
                 ) : null}
+              </div>
+              <div className="grid gap-3 sm:grid-cols-[minmax(0,1fr)_9rem]">
+                <Input
+                  label="Description"
+                  placeholder={kind === 'target_media' ? 'e.g. 1 TB USB 3.2 external drive' : undefined}
+                  error={errors.lines?.[i]?.description?.message}
+                  {...register(`lines.${i}.description` as const)}
+                />
+                <Input label="Amount (USD)" inputMode="decimal" placeholder="0.00" error={errors.lines?.[i]?.amount?.message} {...register(`lines.${i}.amount` as const)} />
               </div>
             </div>
           );

@@ -1,6 +1,8 @@
+import { useState } from 'react';
 import { formatMoney } from '@shared/domain/money';
 import type { LabCaseDto } from '@shared/schemas/lab-work';
 import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { useCan } from '@/lib/auth';
 import { formatDateTime } from '@/lib/format';
@@ -14,6 +16,9 @@ export function QuotePanel({ labCase }: { labCase: LabCaseDto }) {
   const can = useCan();
   const { quote, evaluation, payment } = labCase;
   const mayQuote = can('quotes.send') && QUOTABLE.includes(labCase.status) && evaluation !== null && evaluation.recoverability !== 'none';
+  // A quote already sent is shown as the customer sees it; revising opens the form.
+  const [revising, setRevising] = useState(false);
+  const editing = mayQuote && (!quote || revising);
   if (!quote && !mayQuote) {
     if (labCase.status !== 'evaluating') return null;
     return (
@@ -35,8 +40,15 @@ export function QuotePanel({ labCase }: { labCase: LabCaseDto }) {
             {quote.decline.reason ? `“${quote.decline.reason}”` : 'No reason given.'}
           </Alert>
         ) : null}
-        {quote && !mayQuote ? <QuoteLines quote={quote} /> : null}
-        {mayQuote ? <QuoteForm labCase={labCase} /> : null}
+        {quote && !editing ? <QuoteLines quote={quote} /> : null}
+        {mayQuote && !editing ? (
+          <div>
+            <Button variant="secondary" onClick={() => setRevising(true)}>
+              Revise the quote
+            </Button>
+          </div>
+        ) : null}
+        {editing ? <QuoteForm labCase={labCase} onSent={() => setRevising(false)} /> : null}
       </div>
     </Card>
   );
