@@ -9,7 +9,7 @@ import type { Actor, ServiceContext } from '../lib/context';
 import { AppError } from '../lib/errors';
 import { logger } from '../lib/logger';
 import { postPayout } from '../ledger';
-import { enqueueEmail } from '../notifications';
+import { enqueueEmailToUser } from '../notifications';
 import { paymentsClient } from './client';
 import { updateReturning } from './sql';
 import { SettlementRun, Statement, type SettlementRunSummary, type SettlementTrigger } from './entities';
@@ -298,7 +298,7 @@ async function notifyStatementsReady(ctx: ServiceContext, manager: EntityManager
           ? 'Refunds outweigh this month’s earnings, so nothing is paid this time; the balance is set against your next statement.'
           : 'Nothing is due this month.';
     for (const r of byOrg.get(s.organization_id) ?? []) {
-      await enqueueEmail(manager, r.email, 'statement_ready', {
+      await enqueueEmailToUser(manager, { email: r.email }, 'statement_ready', {
         name: r.name,
         organizationName: r.organization_name,
         period,
@@ -426,7 +426,7 @@ export async function payStatement(ctx: ServiceContext, statementId: string, opt
       details: { period: claimed.period, amountMinor, currency: claimed.currency.trim(), transferId: paid.id, attempts: claimed.attempts + 1 },
     });
     for (const r of await recipientsOf(manager, [claimed.organization_id])) {
-      await enqueueEmail(manager, r.email, 'payout_sent', {
+      await enqueueEmailToUser(manager, { email: r.email }, 'payout_sent', {
         name: r.name,
         organizationName: r.organization_name,
         period: claimed.period,
@@ -441,7 +441,7 @@ export async function payStatement(ctx: ServiceContext, statementId: string, opt
 
 async function tellAboutFailure(ctx: ServiceContext, manager: EntityManager, s: ClaimedStatement, amountMinor: number, reason: string, nextStep: string) {
   for (const r of await recipientsOf(manager, [s.organization_id])) {
-    await enqueueEmail(manager, r.email, 'payout_failed', {
+    await enqueueEmailToUser(manager, { email: r.email }, 'payout_failed', {
       name: r.name,
       organizationName: r.organization_name,
       period: s.period,
