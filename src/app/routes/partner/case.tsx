@@ -10,6 +10,7 @@ import { getReferralQueryOptions, useReferral } from '@/features/referrals/api/g
 import { CaseDetail } from '@/features/referrals/components/case-detail';
 import { ShipSection } from '@/features/shipping/components/ship-section';
 import { CaseRecordPanel } from '@/features/custody';
+import { ShopLabWork } from '@/features/customer';
 
 export const clientLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
   // A failure (another shop's case, a mistyped link) is shown by the page itself.
@@ -44,6 +45,9 @@ export default function CasePage() {
     <>
       <CaseDetail referral={referral.data} />
       <ShipSection referralId={referral.data.id} />
+      <div className="mt-6">
+        <ShopLabWork referralId={referral.data.id} customerEmail={referral.data.customer.email} />
+      </div>
       <CaseRecordPanel caseId={referral.data.id} />
     </>
   );
