@@ -16,7 +16,9 @@ export function ImagingProgress({ imaging, detail = 'full' }: { imaging: Imaging
             ? `finished ${formatDateTime(imaging.reportedAt)}`
             : imaging.remainingSeconds === null
               ? 'paused or retrying a weak area: no estimate right now'
-              : `${formatRemaining(imaging.remainingSeconds)} left · expected ${formatDateTime(imaging.eta!)}`}
+              : new Date(imaging.eta!).getTime() < Date.now()
+                ? `the estimate from the report of ${formatDateTime(imaging.reportedAt)} has passed; waiting for the next report`
+                : `${formatRemaining(imaging.remainingSeconds)} left · expected ${formatDateTime(imaging.eta!)}`}
         </span>
       </div>
       <div
