@@ -22,10 +22,11 @@ export async function accountId(manager: EntityManager, ref: AccountRef, currenc
   if (!ledgerAccountKinds.includes(ref.kind)) throw new Error(`unknown ledger account kind "${ref.kind}"`);
   const org = PER_ORGANIZATION.has(ref.kind) ? (ref.organizationId ?? null) : null;
   if (PER_ORGANIZATION.has(ref.kind) && !org) throw new Error(`a ${ref.kind} account belongs to an organisation`);
-  const existing: { id: string }[] = await manager.query(
-    `SELECT id FROM ledger_accounts WHERE kind = $1 AND organization_id IS NOT DISTINCT FROM $2 AND currency = $3`,
-    [ref.kind, org, currency],
-  );
+  // Written so the unique index answers it (IS NOT DISTINCT FROM would not use the index).
+  const find = org
+    ? () => manager.query(`SELECT id FROM ledger_accounts WHERE kind = $1 AND organization_id = $2 AND currency = $3`, [ref.kind, org, currency])
+    : () => manager.query(`SELECT id FROM ledger_accounts WHERE kind = $1 AND organization_id IS NULL AND currency = $2`, [ref.kind, currency]);
+  const existing: { id: string }[] = await find();
   if (existing[0]) return existing[0].id;
   const inserted: { id: string }[] = await manager.query(
     `INSERT INTO ledger_accounts (kind, organization_id, currency) VALUES ($1, $2, $3)
@@ -34,10 +35,7 @@ export async function accountId(manager: EntityManager, ref: AccountRef, currenc
   );
   if (inserted[0]) return inserted[0].id;
   // Opened by a concurrent transaction that has committed meanwhile.
-  const [again]: { id: string }[] = await manager.query(
-    `SELECT id FROM ledger_accounts WHERE kind = $1 AND organization_id IS NOT DISTINCT FROM $2 AND currency = $3`,
-    [ref.kind, org, currency],
-  );
+  const [again]: { id: string }[] = await find();
   return again!.id;
 }
 
