@@ -33,7 +33,11 @@ async function createPlan(body: Record<string, unknown>) {
 // A test below makes a plan the default; the one that was the default before is the default again after.
 const [previousDefault] = await db.query(`SELECT id FROM commission_plans WHERE is_default`);
 afterAll(async () => {
-  if (previousDefault) await db.query(`UPDATE commission_plans SET is_default = (id = $1) WHERE is_default OR id = $1`, [previousDefault.id]);
+  if (!previousDefault) return;
+  await db.transaction(async (m) => {
+    await m.query(`UPDATE commission_plans SET is_default = false WHERE is_default`);
+    await m.query(`UPDATE commission_plans SET is_default = true WHERE id = $1`, [previousDefault.id]);
+  });
 });
 
 describe('commission plans', () => {
