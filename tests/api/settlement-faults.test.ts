@@ -134,7 +134,7 @@ describe('a run that stops half way', () => {
   });
 
   it('survives the settlement process being killed after some transfers: the next run completes and no one is paid twice', async () => {
-    const shops = [];
+    const shops: Awaited<ReturnType<typeof shopWithAccount>>[] = [];
     for (let i = 0; i < 6; i++) {
       const shop = await shopWithAccount();
       await paidCase(db, shop, { totalMinor: 10_000 * (i + 1), serviceLinesMinor: 10_000 * (i + 1), paidAt: at('2022-06', i + 1) });
@@ -211,7 +211,7 @@ describe('a run that stops half way', () => {
     ]);
 
     // The next run (PostgreSQL drops the dead process's lock when its connection goes).
-    let run;
+    let run: Awaited<ReturnType<typeof runSettlement>>;
     for (let attempt = 0; ; attempt++) {
       try {
         run = await runSettlement(ctx, { period: '2022-06', trigger: 'manual', organizationIds: shops.map((s) => s.partnerId) });
