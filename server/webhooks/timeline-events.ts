@@ -17,6 +17,9 @@ export const partnerEventForTimelineKind: Record<string, PartnerEventType> = {
   quote_approved: 'quote.approved',
   payment_succeeded: 'payment.succeeded',
   ready_for_review: 'recovery.ready_for_review',
+  // The lab-work component's names for the same steps.
+  payment_received: 'payment.succeeded',
+  files_ready: 'recovery.ready_for_review',
   returned: 'referral.returned',
   closed: 'referral.closed',
 };
