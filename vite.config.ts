@@ -36,7 +36,7 @@ export default defineConfig({
           name: 'api',
           include: ['tests/api/**/*.test.ts'],
           globalSetup: ['tests/support/global-setup.ts'],
-          testTimeout: 30_000,
+          testTimeout: 60_000,
           hookTimeout: 60_000,
         },
       },

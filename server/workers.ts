@@ -9,6 +9,8 @@ import { registerShippingJobs } from './shipping';
 import { dispatchWebhooks } from './webhooks';
 
 /** Which loops to run; all by default. Tests pick the one they exercise. */
+const MAIL_BATCH = 25;
+
 export interface WorkerSelection {
   mail?: boolean;
   jobs?: boolean;
@@ -29,10 +31,13 @@ export async function startWorkers(
   let running: Promise<unknown> = Promise.resolve();
   const tick = async () => {
     if (stopped || !only.mail) return;
-    running = dispatchOutbox(db, transport, { from: config.mailFrom })
+    // A full batch means more may be waiting (a backlog after the mail server was down): go on at once.
+    let busy = false;
+    running = dispatchOutbox(db, transport, { from: config.mailFrom, batchSize: MAIL_BATCH })
+      .then((sent) => (busy = sent >= MAIL_BATCH))
       .catch((err) => reportError(err, { worker: 'outbox' }))
       .finally(() => {
-        if (!stopped) timer = setTimeout(tick, 500);
+        if (!stopped) timer = setTimeout(tick, busy ? 0 : 500);
       });
   };
   let timer = setTimeout(tick, 100);

@@ -69,7 +69,7 @@ export interface FakeMail {
 }
 
 /** Waits for a message to arrive at the mail fake (the outbox is sent by a worker). */
-export async function waitForMail(to: string, match: (m: FakeMail) => boolean = () => true, timeoutMs = 15_000): Promise<FakeMail> {
+export async function waitForMail(to: string, match: (m: FakeMail) => boolean = () => true, timeoutMs = 30_000): Promise<FakeMail> {
   const deadline = Date.now() + timeoutMs;
   const base = inject('mailApiUrl');
   while (Date.now() < deadline) {
