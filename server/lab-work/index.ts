@@ -10,6 +10,8 @@ export { reportImaging, reportImagingIn } from './imaging';
 export { uploadManifest, uploadManifestIn, confirmFiles, disputeFiles } from './manifest';
 export { asCustomer, setReturnAddress } from './customer';
 export type { LabPrincipal } from './access';
+// For shipping: whether a case's return box may leave the lab yet.
+export { returnWaitingFor } from './return-readiness';
 
 // The payment provider's events that concern this component, on the shared webhook's dispatcher.
 registerPaymentHandlers();

@@ -9,6 +9,8 @@ import { customerCaseDto } from '@shared/schemas/customer';
 import { labCaseDto } from '@shared/schemas/lab-work';
 import { referralDto } from '@shared/schemas/referrals';
 import { signatureHeader } from '../../fakes/payments/webhooks';
+import { returnWaitingFor } from '../../server/lab-work';
+import { Referral } from '../../server/referrals';
 import { setupApi } from '../support/api';
 import {
   approvedCase,
@@ -445,5 +447,22 @@ describe('reviewing the recovered files', () => {
     expect(res.body.returnAddress).toMatchObject({ name: 'Rowan Tillery', line1: '18 Larch Lane', line2: null, postalCode: '50010', country: 'US' });
     const lab = await request(app).get(`/api/lab/cases/${c.id}`).set(auth(world.technician.token));
     expect(lab.body.returnAddress).toMatchObject({ city: 'Ames', region: 'IA' });
+  });
+});
+
+describe('returning the data', () => {
+  it('lets the data ship back only once the customer has paid and confirmed the files', async () => {
+    const world = await makeWorld();
+    const c = await paidCase(ctx, world, payments.fake.url);
+    const waiting = async () => returnWaitingFor(db.manager, (await db.getRepository(Referral).findOneByOrFail({ id: c.id })));
+    expect(await waiting()).toMatch(/not finished/);
+    await request(app).post(`/api/lab/cases/${c.id}/imaging`).set(auth(world.technician.token)).send({ bytesRead: 500_000_000_000, rateBytesPerSec: 0 });
+    const upload = await request(app)
+      .post(`/api/lab/cases/${c.id}/manifest`)
+      .set(auth(world.technician.token))
+      .attach('manifest', Buffer.from('path,size,state\nPhotos/a.jpg,10,intact'), { filename: 'recovered.csv' });
+    expect(await waiting()).toBe('Waiting for the customer to confirm the recovered files.');
+    await request(app).post('/api/customer/case/files/confirm').set(customerAuth(c.token)).send({ manifestId: upload.body.manifest.id });
+    expect(await waiting()).toBeNull();
   });
 });
