@@ -39,6 +39,33 @@ export async function accountId(manager: EntityManager, ref: AccountRef, currenc
   return again!.id;
 }
 
+/** The ids of several accounts: one query for those that exist, `accountId` (which opens them) for the rest. */
+async function accountIds_(manager: EntityManager, refs: AccountRef[], currency: string): Promise<string[]> {
+  const keyOf = (kind: string, org: string | null) => `${kind}|${org ?? ''}`;
+  const wanted = refs.map((r) => ({ kind: r.kind, org: PER_ORGANIZATION.has(r.kind) ? (r.organizationId ?? null) : null }));
+  const rows: { id: string; kind: string; organization_id: string | null }[] = await manager.query(
+    `SELECT id, kind, organization_id FROM ledger_accounts
+     WHERE currency = $1 AND ((organization_id IS NULL AND kind = ANY($2)) OR (organization_id = ANY($3) AND kind = ANY($4)))`,
+    [
+      currency,
+      wanted.filter((w) => !w.org).map((w) => w.kind),
+      wanted.filter((w) => w.org).map((w) => w.org),
+      wanted.filter((w) => w.org).map((w) => w.kind),
+    ],
+  );
+  const found = new Map(rows.map((r) => [keyOf(r.kind, r.organization_id), r.id]));
+  const ids: string[] = [];
+  for (const [i, w] of wanted.entries()) {
+    let id = found.get(keyOf(w.kind, w.org));
+    if (!id) {
+      id = await accountId(manager, refs[i]!, currency);
+      found.set(keyOf(w.kind, w.org), id);
+    }
+    ids.push(id);
+  }
+  return ids;
+}
+
 export interface EntryInput {
   account: AccountRef;
   amountMinor: number;
@@ -90,8 +117,7 @@ export async function postTransaction(manager: EntityManager, input: Transaction
     return { id: existing!.id, created: false };
   }
   const id = inserted[0].id;
-  const accountIds: string[] = [];
-  for (const e of entries) accountIds.push(await accountId(manager, e.account, currency));
+  const accountIds = await accountIds_(manager, entries.map((e) => e.account), currency);
   const values: unknown[] = [];
   const rows = entries.map((e, i) => {
     values.push(id, accountIds[i], e.amountMinor, currency, e.memo);

@@ -127,7 +127,15 @@ export async function runSettlement(ctx: ServiceContext, options: RunSettlementO
          AND ($2::uuid[] IS NULL OR organization_id = ANY($2)) ORDER BY payee_kind DESC, organization_id`,
       [options.period, scope],
     );
-    const results = await inParallel(due, ctx.config.settlementConcurrency, (s) => payStatement(ctx, s.id, { now: new Date(), manual: options.trigger !== 'schedule' }));
+    // Who hears about each payout, read once for the run rather than once per payout.
+    const orgs: { organization_id: string }[] = await ctx.db.query(`SELECT DISTINCT organization_id FROM statements WHERE id = ANY($1)`, [due.map((d) => d.id)]);
+    const recipients = new Map<string, Recipient[]>();
+    for (const r of await recipientsOf(ctx.db.manager, orgs.map((o) => o.organization_id))) {
+      recipients.set(r.organization_id, [...(recipients.get(r.organization_id) ?? []), r]);
+    }
+    const results = await inParallel(due, ctx.config.settlementConcurrency, (s) =>
+      payStatement(ctx, s.id, { now: new Date(), manual: options.trigger !== 'schedule', recipients }),
+    );
 
     const summary = emptySummary();
     summary.statementsCreated = created.created;
@@ -328,6 +336,8 @@ interface ClaimedStatement {
   transfer_group: string;
   attempts: number;
   previous_status: string;
+  provider_account_id: string | null;
+  payouts_enabled: boolean;
 }
 
 /** Looks up a transfer already made for this statement (after a crash, or once the idempotency key expired). */
@@ -346,24 +356,28 @@ function errorText(err: unknown): string {
  * Step 2 for one statement: sends its transfer, or finds the one already sent, and records it. Safe to
  * call again at any point: a paid statement is left alone; an unsure one is looked up before paying.
  */
-export async function payStatement(ctx: ServiceContext, statementId: string, options: { now?: Date; manual?: boolean } = {}): Promise<PayOutcome> {
+export async function payStatement(
+  ctx: ServiceContext,
+  statementId: string,
+  options: { now?: Date; manual?: boolean; recipients?: Map<string, Recipient[]> } = {},
+): Promise<PayOutcome> {
+  const recipients = async (manager: EntityManager, organizationId: string) =>
+    options.recipients?.get(organizationId) ?? (options.recipients ? [] : await recipientsOf(manager, [organizationId]));
   const now = options.now ?? new Date();
+  // The claim also reads the payee's payout account (one round trip).
   const [claimed] = await updateReturning<ClaimedStatement>(
     ctx.db,
-    `WITH prev AS (SELECT id, status FROM statements WHERE id = $1 FOR UPDATE)
+    `WITH prev AS (SELECT id, status, organization_id FROM statements WHERE id = $1 FOR UPDATE)
      UPDATE statements s SET status = 'paying', claimed_at = $2, updated_at = now()
-     FROM prev WHERE s.id = prev.id AND prev.status IN ('pending', 'failed', 'paying', 'no_account')
+     FROM prev LEFT JOIN payout_accounts pa ON pa.organization_id = prev.organization_id
+     WHERE s.id = prev.id AND prev.status IN ('pending', 'failed', 'paying', 'no_account')
      RETURNING s.id, s.organization_id, s.payee_kind, s.period, s.currency, s.payout_minor::text, s.idempotency_key, s.transfer_group,
-               s.attempts, prev.status AS previous_status`,
+               s.attempts, prev.status AS previous_status, pa.provider_account_id, coalesce(pa.payouts_enabled, false) AS payouts_enabled`,
     [statementId, now],
   );
   if (!claimed) return { outcome: 'skipped', statementId };
   const amountMinor = Number(claimed.payout_minor);
-
-  const [account]: { provider_account_id: string; payouts_enabled: boolean }[] = await ctx.db.query(
-    `SELECT provider_account_id, payouts_enabled FROM payout_accounts WHERE organization_id = $1`,
-    [claimed.organization_id],
-  );
+  const account = claimed.provider_account_id ? { provider_account_id: claimed.provider_account_id, payouts_enabled: claimed.payouts_enabled } : null;
   if (!account?.payouts_enabled) {
     await ctx.db.transaction(async (manager) => {
       await manager.query(
@@ -371,7 +385,7 @@ export async function payStatement(ctx: ServiceContext, statementId: string, opt
         [claimed.id, account ? 'The payout account has not finished onboarding' : 'No payout account is set up'],
       );
       if (claimed.previous_status !== 'no_account') {
-        await tellAboutFailure(ctx, manager, claimed, amountMinor, 'there is no payout account ready to receive it yet.', 'Set up your payout account in Platterpost; the payout is sent as soon as it is ready.');
+        await tellAboutFailure(ctx, manager, claimed, amountMinor, 'there is no payout account ready to receive it yet.', 'Set up your payout account in Platterpost; the payout is sent as soon as it is ready.', await recipients(manager, claimed.organization_id));
       }
     });
     return { outcome: 'no_account', statementId };
@@ -398,7 +412,7 @@ export async function payStatement(ctx: ServiceContext, statementId: string, opt
       throw new Error(`transfer ${transfer.id} found for this statement is for ${transfer.amount} ${transfer.currency}, not ${amountMinor} ${claimed.currency}`);
     }
   } catch (err) {
-    return recordFailure(ctx, claimed, amountMinor, err, now, options.manual ?? false);
+    return recordFailure(ctx, claimed, amountMinor, err, now, options.manual ?? false, (m) => recipients(m, claimed.organization_id));
   }
 
   const paid = transfer;
@@ -425,7 +439,7 @@ export async function payStatement(ctx: ServiceContext, statementId: string, opt
       targetId: claimed.id,
       details: { period: claimed.period, amountMinor, currency: claimed.currency.trim(), transferId: paid.id, attempts: claimed.attempts + 1 },
     });
-    for (const r of await recipientsOf(manager, [claimed.organization_id])) {
+    for (const r of await recipients(manager, claimed.organization_id)) {
       await enqueueEmailToUser(manager, { email: r.email }, 'payout_sent', {
         name: r.name,
         organizationName: r.organization_name,
@@ -439,8 +453,16 @@ export async function payStatement(ctx: ServiceContext, statementId: string, opt
   return { outcome: 'paid', statementId: claimed.id, currency: claimed.currency.trim(), amountMinor, transferId: paid.id };
 }
 
-async function tellAboutFailure(ctx: ServiceContext, manager: EntityManager, s: ClaimedStatement, amountMinor: number, reason: string, nextStep: string) {
-  for (const r of await recipientsOf(manager, [s.organization_id])) {
+async function tellAboutFailure(
+  ctx: ServiceContext,
+  manager: EntityManager,
+  s: ClaimedStatement,
+  amountMinor: number,
+  reason: string,
+  nextStep: string,
+  to: Recipient[],
+) {
+  for (const r of to) {
     await enqueueEmailToUser(manager, { email: r.email }, 'payout_failed', {
       name: r.name,
       organizationName: r.organization_name,
@@ -453,7 +475,15 @@ async function tellAboutFailure(ctx: ServiceContext, manager: EntityManager, s: 
   }
 }
 
-async function recordFailure(ctx: ServiceContext, s: ClaimedStatement, amountMinor: number, err: unknown, now: Date, manual: boolean): Promise<PayOutcome> {
+async function recordFailure(
+  ctx: ServiceContext,
+  s: ClaimedStatement,
+  amountMinor: number,
+  err: unknown,
+  now: Date,
+  manual: boolean,
+  recipients: (manager: EntityManager) => Promise<Recipient[]>,
+): Promise<PayOutcome> {
   const attempts = s.attempts + 1;
   const message = errorText(err);
   const giveUp = attempts >= ctx.config.payoutMaxAttempts;
@@ -482,6 +512,7 @@ async function recordFailure(ctx: ServiceContext, s: ClaimedStatement, amountMin
         amountMinor,
         'the payment provider did not accept the transfer.',
         giveUp ? 'Our team has been told and will send it by hand once the cause is fixed.' : 'We try again by ourselves over the next hours.',
+        await recipients(manager),
       );
     }
   });
