@@ -122,7 +122,7 @@ export interface ProviderPayment {
  * The one place a payment takes effect: the checkout becomes paid, the case moves to `paid`, the ledger
  * gets the payment, the customer an e-mail — all in one transaction, and only the first time.
  */
-export async function applyPayment(ctx: ServiceContext, manager: EntityManager, payment: ProviderPayment): Promise<PaymentOutcome> {
+export async function applyPayment(manager: EntityManager, payment: ProviderPayment): Promise<PaymentOutcome> {
   const found = await manager.findOneBy(CustomerCheckout, { paymentIntentId: payment.paymentIntentId });
   if (!found) return 'not_ours';
   const referral = await lockReferral(manager, found.referralId);
@@ -214,7 +214,7 @@ export async function recordPayment(ctx: ServiceContext, manager: EntityManager,
   if (intent.status !== 'succeeded') return 'not_paid';
   const charge = intent.latest_charge as Stripe.Charge | null;
   const txn = charge?.balance_transaction as Stripe.BalanceTransaction | null | undefined;
-  const outcome = await applyPayment(ctx, manager, {
+  const outcome = await applyPayment(manager, {
     paymentIntentId,
     amountReceivedMinor: intent.amount_received,
     currency: intent.currency.toUpperCase(),

@@ -3,7 +3,7 @@ import { categoryForPath, parseManifestCsv, summarizeManifest, type FileState, t
 import { confirmFilesInput, disputeFilesInput } from '@shared/schemas/customer';
 import { MANIFEST_EXAMPLES_PER_CATEGORY, MANIFEST_MAX_BYTES, type ManifestDto } from '@shared/schemas/lab-work';
 import type { FieldError } from '@shared/schemas/api-error';
-import { priorityCategoryLabels, type PriorityCategory } from '@shared/vocabulary';
+import type { PriorityCategory } from '@shared/vocabulary';
 import { recordAudit } from '../audit';
 import { issueCustomerLink, systemIssuer } from '../customer-link';
 import { AppError } from '../lib/errors';
@@ -271,9 +271,4 @@ export async function disputeFiles(manager: EntityManager, referral: Referral, r
     details: { manifestId: manifest.id, linkId: meta.linkId },
     ip: meta.ip,
   });
-}
-
-/** For messages: "Photos, Documents". */
-export function categoryList(categories: readonly PriorityCategory[]): string {
-  return categories.map((c) => priorityCategoryLabels[c]).join(', ');
 }

@@ -314,7 +314,7 @@ export async function seedDemoLabWork(manager: EntityManager, orgIds: Map<string
       createdAt: new Date(paidAt.getTime() - 5 * 60_000),
     });
     // The provider's published US card rate (from memory: 2.9 % + 30¢); demo payments only.
-    await applyPayment(ctx, manager, { paymentIntentId, amountReceivedMinor: quote.totalMinor, currency: quote.currency, feeMinor: cardFeeMinor(quote.totalMinor), paidAt, recordedAt: paidAt });
+    await applyPayment(manager, { paymentIntentId, amountReceivedMinor: quote.totalMinor, currency: quote.currency, feeMinor: cardFeeMinor(quote.totalMinor), paidAt, recordedAt: paidAt });
     if (!reached(demo.stage, 'recovering')) continue;
 
     const totalBytes = demo.input.device.capacityGb! * 1e9;
