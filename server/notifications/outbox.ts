@@ -41,7 +41,9 @@ export async function dispatchOutbox(db: DataSource, transport: Transporter, { f
     const due: OutboxMessage[] = await manager
       .createQueryBuilder(OutboxMessage, 'm')
       .where(`m.status = 'pending' AND m.next_attempt_at <= now()`)
-      .orderBy('m.created_at', 'ASC')
+      // Links people are waiting for (a password reset, an invitation) go before any backlog.
+      .orderBy(`CASE WHEN m.template IN ('password_reset', 'staff_invitation') THEN 0 ELSE 1 END`, 'ASC')
+      .addOrderBy('m.created_at', 'ASC')
       .limit(batchSize)
       .setLock('pessimistic_write')
       .setOnLocked('skip_locked')

@@ -1,9 +1,18 @@
+import { benchPartnerApiLoad } from './partner-api-load';
 import { benchRouting } from './routing';
-import { benchShipping } from './shipping';
 import { benchSettlement } from './settlement';
+import { benchShipping } from './shipping';
 
-// `npm run bench`: prints speed figures; nothing here is asserted in the test suite.
+// `npm run bench [-- routing shipping settlement load]`: prints speed figures; nothing here is
+// asserted in the test suite. With no names, every benchmark runs.
+const benches: Record<string, () => unknown> = {
+  routing: benchRouting,
+  shipping: benchShipping,
+  settlement: benchSettlement,
+  load: benchPartnerApiLoad,
+};
+const wanted = process.argv.slice(2).filter((a) => a in benches);
 console.log('Platterpost benchmarks\n');
-benchRouting();
-await benchShipping();
-await benchSettlement();
+for (const [name, bench] of Object.entries(benches)) {
+  if (wanted.length === 0 || wanted.includes(name)) await bench();
+}
