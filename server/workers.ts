@@ -9,7 +9,7 @@ import { registerShippingJobs } from './shipping';
 import { dispatchWebhooks } from './webhooks';
 
 /** Which loops to run; all by default. Tests pick the one they exercise. */
-const MAIL_BATCH = 25;
+const MAIL_BATCH = 100;
 
 export interface WorkerSelection {
   mail?: boolean;
