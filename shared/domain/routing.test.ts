@@ -1,9 +1,29 @@
 import fc from 'fast-check';
+import { DateTime } from 'luxon';
 import { describe, expect, it } from 'vitest';
-import { labSkills, mediaTypes, type LabSkill } from '../vocabulary';
-import type { ParticleCountCertificate } from './clean-air';
-import { routeCase, type RoutingCase, type RoutingLab } from './routing';
+import { cleanAirSkills, labSkillLabels, labSkills, mediaTypeLabels, mediaTypes, type LabSkill } from '../vocabulary';
+import {
+  classifyCertificate,
+  evaluateClass,
+  MECHANICAL_WORK_MAX_ISO_CLASS,
+  retestDueDate,
+  type IsoClass,
+  type ParticleCountCertificate,
+} from './clean-air';
+import { geodesicDistanceKm, kmToMiles, type LatLon } from './geo';
+import {
+  BUSINESS_DAYS_PER_WEEK,
+  routeCase,
+  type ExcludedLab,
+  type ExclusionReason,
+  type RankedLab,
+  type RoutingCase,
+  type RoutingLab,
+  type RoutingOptions,
+  type RoutingResult,
+} from './routing';
 import { triage } from './triage';
+import { distanceZone, transitDaysForZone, type ShippingMode } from './zones';
 
 // Places are real city centres; labs and their figures are invented test data.
 // Distances come from geographiclib (checked in geo.test.ts); zones and transit days from zones.ts
@@ -297,6 +317,403 @@ describe('routeCase: properties over random labs', () => {
           });
         },
       ),
+    );
+  });
+});
+
+// ---------------------------------------------------------------------------------------------------------
+// routeCase as it stood at commit 6d0d984 (one pass over plain lab objects), kept verbatim as the oracle:
+// the packed lab index must give exactly the same ranking, reasons and exclusions.
+// ---------------------------------------------------------------------------------------------------------
+
+const round1 = (value: number) => Math.round(value * 10) / 10;
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+
+function validateCase(kase: RoutingCase, options: RoutingOptions): void {
+  if (!mediaTypes.includes(kase.mediaType)) {
+    throw new RangeError(`mediaType must be one of ${mediaTypes.join(', ')}, got "${kase.mediaType}"`);
+  }
+  // geodesicDistanceKm checks coordinates; check the shop's once here so the error names it.
+  geodesicDistanceKm(kase.shopLocation, kase.shopLocation);
+  const skills = kase.requirements.requiredSkills;
+  if (!Array.isArray(skills) || skills.length === 0) {
+    throw new RangeError('requirements.requiredSkills must list at least one skill (run triage first)');
+  }
+  for (const s of skills) {
+    if (!labSkills.includes(s)) throw new RangeError(`unknown lab skill "${s}" in requirements.requiredSkills`);
+  }
+  if (!(options.asOf instanceof Date) || Number.isNaN(options.asOf.getTime())) {
+    throw new RangeError('options.asOf must be a valid Date');
+  }
+}
+
+// A certificate's class never changes, and labs share a handful of time zones: both are worked out
+// once, which keeps ranking thousands of labs within a few milliseconds.
+const classificationCache = new WeakMap<object, ReturnType<typeof classifyCertificate> | Error>();
+function classifyOnce(certificate: NonNullable<RoutingLab['cleanAirCertificate']>) {
+  let cached = classificationCache.get(certificate);
+  if (!cached) {
+    try {
+      cached = classifyCertificate(certificate);
+    } catch (error) {
+      cached = error as Error;
+    }
+    classificationCache.set(certificate, cached);
+  }
+  if (cached instanceof Error) throw cached;
+  return cached;
+}
+
+
+const failureTextCache = new WeakMap<object, string>();
+const classReasonCache = new WeakMap<object, ExclusionReason>();
+function classFailureText(certificate: NonNullable<RoutingLab['cleanAirCertificate']>): string {
+  let text = failureTextCache.get(certificate);
+  if (text === undefined) {
+    text = evaluateClass(certificate, MECHANICAL_WORK_MAX_ISO_CLASS).failures.map((f) => f.message).join(' ');
+    failureTextCache.set(certificate, text);
+  }
+  return text;
+}
+
+class ZoneDays {
+  private readonly today = new Map<string, string | null>();
+  private readonly due = new Map<string, string>();
+  dueDate(testedOn: string, isoClass: IsoClass): string {
+    const key = `${testedOn}|${isoClass}`;
+    let value = this.due.get(key);
+    if (value === undefined) this.due.set(key, (value = retestDueDate(testedOn, isoClass)));
+    return value;
+  }
+  constructor(private readonly asOf: Date) {}
+  /** The calendar date in a time zone, or null when the zone is not a valid IANA zone. */
+  todayIn(timeZone: string): string | null {
+    let value = this.today.get(timeZone);
+    if (value === undefined) {
+      const local = DateTime.fromJSDate(this.asOf).setZone(timeZone);
+      value = local.isValid ? (local.toISODate() as string) : null;
+      this.today.set(timeZone, value);
+    }
+    return value;
+  }
+}
+
+function profileProblems(lab: RoutingLab, zones: ZoneDays, required: readonly LabSkill[]): string[] {
+  const problems: string[] = [];
+  const { lat, lon } = lab.location ?? ({} as LatLon);
+  if (!(typeof lat === 'number' && lat >= -90 && lat <= 90 && typeof lon === 'number' && lon >= -180 && lon <= 180)) {
+    problems.push(`location: latitude must be within ±90° and longitude within ±180°, got ${lat}, ${lon}`);
+  }
+  if (zones.todayIn(lab.timeZone) === null) problems.push(`time zone "${lab.timeZone}" is not an IANA time zone`);
+  if (!Number.isInteger(lab.openCases) || lab.openCases < 0) problems.push(`open cases must be a whole number ≥ 0, got ${lab.openCases}`);
+  if (!Number.isInteger(lab.queueCapacity) || lab.queueCapacity < 0) problems.push(`queue capacity must be a whole number ≥ 0, got ${lab.queueCapacity}`);
+  if (!Number.isFinite(lab.weeklyThroughput) || lab.weeklyThroughput < 0) problems.push(`weekly throughput must be a number ≥ 0, got ${lab.weeklyThroughput}`);
+  // Only the skills this case needs are read, so only they are checked (the profile form checks the rest).
+  for (const skill of required) {
+    const days = lab.turnaroundDays[skill];
+    if (days !== undefined && !(Number.isFinite(days) && days > 0)) problems.push(`turnaround for ${skill} must be a positive number of days, got ${days}`);
+  }
+  return problems;
+}
+
+function checkCleanAir(
+  lab: RoutingLab,
+  zones: ZoneDays,
+): { ok: true; isoClass: IsoClass; testedOn: string; currentUntil: string } | { ok: false; reason: ExclusionReason } {
+  const certificate = lab.cleanAirCertificate;
+  const needed = `ISO class ${MECHANICAL_WORK_MAX_ISO_CLASS} or cleaner`;
+  if (!certificate) {
+    return { ok: false, reason: { code: 'clean_air_missing', message: `No clean-air certificate on file; head swaps and platter work need ${needed}.` } };
+  }
+  let classification;
+  try {
+    classification = classifyOnce(certificate);
+  } catch (error) {
+    return { ok: false, reason: { code: 'clean_air_unusable', message: `The clean-air certificate cannot be read: ${(error as Error).message}.` } };
+  }
+  if (classification.problems.length > 0) {
+    return { ok: false, reason: { code: 'clean_air_unusable', message: `The clean-air certificate of ${certificate.testedOn} is unusable: ${classification.problems.join(' ')}` } };
+  }
+  const { isoClass } = classification;
+  if (isoClass === null || isoClass > MECHANICAL_WORK_MAX_ISO_CLASS) {
+    const measured = isoClass === null ? 'demonstrates no ISO class' : `measures ISO class ${isoClass}`;
+    let reason = classReasonCache.get(certificate);
+    if (!reason) {
+      reason = { code: 'clean_air_class', message: `The clean-air certificate of ${certificate.testedOn} ${measured}; head swaps and platter work need ${needed}. ${classFailureText(certificate)}`.trim() };
+      classReasonCache.set(certificate, reason);
+    }
+    return { ok: false, reason };
+  }
+  const today = zones.todayIn(lab.timeZone) as string;
+  const currentUntil = zones.dueDate(certificate.testedOn, isoClass);
+  // ISO calendar dates compare as strings; equivalent to isCertificateCurrent without re-parsing per lab.
+  if (!(certificate.testedOn <= today && today <= currentUntil)) {
+    const message =
+      certificate.testedOn > today
+        ? `The clean-air certificate is dated ${certificate.testedOn}, after today (${today}).`
+        : `The clean-air certificate of ${certificate.testedOn} (ISO class ${isoClass}) was due for re-test by ${currentUntil} (ISO 14644-2 interval).`;
+    return { ok: false, reason: { code: 'clean_air_expired', message } };
+  }
+  return { ok: true, isoClass, testedOn: certificate.testedOn, currentUntil };
+}
+
+function referenceRouteCase(kase: RoutingCase, labs: readonly RoutingLab[], options: RoutingOptions): RoutingResult {
+  validateCase(kase, options);
+  const required = labSkills.filter((s) => kase.requirements.requiredSkills.includes(s));
+  const previouslyOffered = new Set(options.previouslyOfferedLabIds ?? []);
+  const batteryHazard = kase.requirements.batteryHazard === true;
+  const mode: ShippingMode = batteryHazard ? 'ground' : (options.shippingMode ?? 'ground');
+  const mechanicalSkills = required.filter((s) => cleanAirSkills.includes(s));
+  const needsCleanAir = kase.requirements.needsCleanAir || mechanicalSkills.length > 0;
+
+  const excluded: ExcludedLab[] = [];
+  const candidates: Array<Omit<RankedLab, 'rank'> & { sortKey: number }> = [];
+
+  const zones = new ZoneDays(options.asOf);
+  const inactiveReason: ExclusionReason = { code: 'inactive', message: 'Lab is not active on the network.' };
+  const previouslyOfferedReason: ExclusionReason = { code: 'previously_offered', message: 'Lab was already offered this case.' };
+  const mediaReason: ExclusionReason = { code: 'media_type', message: `Lab does not take ${mediaTypeLabels[kase.mediaType]} media.` };
+  const healthReason: ExclusionReason = { code: 'health_data_agreement', message: 'Case holds health records and the lab has not signed the health-data agreement.' };
+  const throughputReason: ExclusionReason = { code: 'no_throughput', message: 'Lab reports no weekly throughput, so its queue time cannot be estimated.' };
+  const missingReasons = new Map<string, ExclusionReason>();
+  for (const lab of labs) {
+    const problems = profileProblems(lab, zones, required);
+    if (problems.length > 0) {
+      excluded.push({ labId: lab.id, labName: lab.name, reasons: [{ code: 'invalid_profile', message: `Lab profile is incomplete: ${problems.join('; ')}.` }] });
+      continue;
+    }
+    // Reasons are built from strings made once per case; most labs are excluded, so this loop stays lean.
+    // (No closure per lab: the TypeScript runner wraps every function it creates, which is slow in a hot loop.)
+    let reasons: ExclusionReason[] | null = null;
+    if (!lab.active) (reasons ??= []).push(inactiveReason);
+    if (previouslyOffered.has(lab.id)) (reasons ??= []).push(previouslyOfferedReason);
+    if (!lab.mediaTypes.includes(kase.mediaType)) (reasons ??= []).push(mediaReason);
+    let missingKey = '';
+    for (const s of required) if (lab.turnaroundDays[s] === undefined) missingKey += missingKey ? `,${s}` : s;
+    if (missingKey) {
+      let reason = missingReasons.get(missingKey);
+      if (!reason) {
+        reason = { code: 'missing_skills', message: `Lab lacks ${missingKey.split(',').map((k) => labSkillLabels[k as LabSkill]).join(', ')}.` };
+        missingReasons.set(missingKey, reason);
+      }
+      (reasons ??= []).push(reason);
+    }
+    if (kase.requirements.needsHealthDataAgreement && !lab.healthDataAgreement) (reasons ??= []).push(healthReason);
+    if (lab.openCases >= lab.queueCapacity) {
+      (reasons ??= []).push({ code: 'queue_full', message: `Queue is full (${lab.openCases} open of ${lab.queueCapacity}).` });
+    }
+    if (lab.weeklyThroughput === 0) (reasons ??= []).push(throughputReason);
+    let cleanAir: RankedLab['cleanAir'];
+    // Only check clean air when the lab offers the mechanical work at all; otherwise the missing skill says it.
+    let offersMechanical = true;
+    for (const s of mechanicalSkills) if (lab.turnaroundDays[s] === undefined) offersMechanical = false;
+    if (needsCleanAir && offersMechanical) {
+      const check = checkCleanAir(lab, zones);
+      if (check.ok) cleanAir = { isoClass: check.isoClass, testedOn: check.testedOn, currentUntil: check.currentUntil };
+      else (reasons ??= []).push(check.reason);
+    }
+    if (reasons) {
+      excluded.push({ labId: lab.id, labName: lab.name, reasons });
+      continue;
+    }
+
+    const distanceKm = geodesicDistanceKm(kase.shopLocation, lab.location);
+    const distanceMiles = kmToMiles(distanceKm);
+    const zone = distanceZone(distanceMiles);
+    const transitDays = transitDaysForZone(zone, mode);
+    const queueRaw = (lab.openCases / lab.weeklyThroughput) * BUSINESS_DAYS_PER_WEEK;
+    // The slowest required step bounds the case; "hardest" is the skill with the lab's longest turnaround,
+    // the first in vocabulary order on a tie.
+    let hardestSkill = required[0]!;
+    for (const s of required) if ((lab.turnaroundDays[s] as number) > (lab.turnaroundDays[hardestSkill] as number)) hardestSkill = s;
+    const turnaroundDays = lab.turnaroundDays[hardestSkill] as number;
+    const estimatedDays = round1(transitDays + queueRaw + turnaroundDays);
+    const queueDays = round1(queueRaw);
+
+    const explanation = [
+      `${Math.round(distanceMiles)} mi from the shop (zone ${zone}): ${plural(transitDays, 'business day')} ${mode} transit${batteryHazard && options.shippingMode === 'air' ? ' (ground only: battery hazard)' : ''}.`,
+      `Queue: ${plural(lab.openCases, 'open case')} at ${lab.weeklyThroughput} a week: ${queueDays} business days.`,
+      required.length > 1
+        ? `Turnaround for ${labSkillLabels[hardestSkill]}, the slowest required skill here: ${plural(turnaroundDays, 'business day')}.`
+        : `Turnaround for ${labSkillLabels[hardestSkill]}: ${plural(turnaroundDays, 'business day')}.`,
+    ];
+    if (cleanAir) {
+      explanation.push(`Clean air ISO class ${cleanAir.isoClass}, tested ${cleanAir.testedOn}, current until ${cleanAir.currentUntil}.`);
+    }
+    if (kase.requirements.needsHealthDataAgreement) explanation.push('Has signed the health-data agreement.');
+    explanation.unshift(`About ${estimatedDays} business days until the customer has data.`);
+
+    candidates.push({
+      labId: lab.id,
+      labName: lab.name,
+      estimatedDays,
+      distanceKm,
+      distanceMiles,
+      zone,
+      shippingMode: mode,
+      transitDays,
+      queueDays,
+      hardestSkill,
+      turnaroundDays,
+      ...(cleanAir ? { cleanAir } : {}),
+      reasons: explanation,
+      sortKey: Math.round(estimatedDays * 10),
+    });
+  }
+
+  candidates.sort(
+    (a, b) => a.sortKey - b.sortKey || a.distanceKm - b.distanceKm || a.labName.localeCompare(b.labName) || a.labId.localeCompare(b.labId),
+  );
+  const ranked: RankedLab[] = candidates.map(({ sortKey, ...lab }, index) => {
+    const tied = index > 0 && candidates[index - 1].sortKey === sortKey;
+    const reasons = tied ? [...lab.reasons, 'Same estimate as the lab ranked above; ties go to the nearer lab.'] : lab.reasons;
+    return { rank: index + 1, ...lab, reasons };
+  });
+  return { ranked, excluded };
+}
+
+// Random labs, some with malformed profiles, and random cases. Small pools of ids, names and places make
+// duplicate ids, equal estimates and equal distances (the tie-breaks) common.
+const labIdPool = ['a', 'b', 'c', 'd', 'e', 'f', 'g', 'h', 'i', 'j', 'k', 'l'];
+const anyPoint = fc.record({ lat: fc.double({ min: -90, max: 90, noNaN: true }), lon: fc.double({ min: -180, max: 180, noNaN: true }) });
+const usPoint = fc.record({ lat: fc.double({ min: 25, max: 49, noNaN: true }), lon: fc.double({ min: -124, max: -67, noNaN: true }) });
+const badPoint = fc.constantFrom<LatLon>(
+  { lat: 91, lon: 0 },
+  { lat: 0, lon: -181 },
+  { lat: Number.NaN, lon: 10 },
+  { lat: 40, lon: Number.POSITIVE_INFINITY },
+  null as unknown as LatLon,
+);
+const labPlace = fc.oneof(
+  { weight: 5, arbitrary: fc.constantFrom(...Object.values(places)) },
+  { weight: 3, arbitrary: usPoint },
+  { weight: 1, arbitrary: fc.oneof(anyPoint, fc.constantFrom({ lat: 90, lon: 180 }, { lat: -90, lon: -180 })) },
+);
+const goodTurnaround = fc.oneof({ weight: 6, arbitrary: fc.integer({ min: 1, max: 15 }) }, { weight: 1, arbitrary: fc.constantFrom(2.5, 0.5) });
+const allSkills = fc.tuple(...labSkills.map(() => goodTurnaround)).map((days) => Object.fromEntries(labSkills.map((s, i) => [s, days[i]])));
+const someSkills = fc.record(Object.fromEntries(labSkills.map((s) => [s, goodTurnaround])) as Record<LabSkill, fc.Arbitrary<number>>, {
+  requiredKeys: [],
+});
+// Shared objects on purpose: several labs holding the same certificate object is how caches go wrong.
+const risingCounts: ParticleCountCertificate = {
+  testedOn: '2026-01-10',
+  areaM2: 1,
+  samples: [
+    { location: 'Bench', sizeUm: 0.3, perM3: 100 },
+    { location: 'Bench', sizeUm: 0.5, perM3: 400 },
+  ],
+};
+const unreadableDate: ParticleCountCertificate = { testedOn: '10 Jan 2026', areaM2: 1, samples: [{ location: 'Bench', sizeUm: 0.5, perM3: 900 }] };
+const noCounts: ParticleCountCertificate = { testedOn: '2026-01-10', areaM2: 1, samples: [] };
+const tooFewLocations: ParticleCountCertificate = { testedOn: '2026-01-10', areaM2: 30, samples: [{ location: 'Bench', sizeUm: 0.5, perM3: 900 }] };
+const sharedClean = certificate('2025-09-02', 900);
+const certificateArb = fc.oneof(
+  { weight: 1, arbitrary: fc.constant(null) },
+  {
+    weight: 5,
+    arbitrary: fc
+      .record({
+        testedOn: fc.constantFrom('2025-03-01', '2025-09-02', '2025-12-31', '2026-01-10', '2026-02-28', '2026-03-02', '2026-03-03', '2026-09-01', '2027-01-15'),
+        perM3: fc.constantFrom(200, 900, 3520, 3521, 12_000, 40_000_000),
+      })
+      .map(({ testedOn, perM3 }) => certificate(testedOn, perM3)),
+  },
+  { weight: 2, arbitrary: fc.constantFrom(risingCounts, unreadableDate, noCounts, tooFewLocations, sharedClean) },
+);
+const wellFormedLab: fc.Arbitrary<RoutingLab> = fc.record({
+  id: fc.constantFrom(...labIdPool),
+  name: fc.constantFrom('Alpha', 'alpha', 'Beta', 'Gamma'),
+  active: fc.oneof({ weight: 8, arbitrary: fc.constant(true) }, { weight: 1, arbitrary: fc.constant(false) }),
+  location: labPlace,
+  timeZone: fc.constantFrom('America/New_York', 'America/Denver', 'America/Los_Angeles', 'Pacific/Honolulu', 'Asia/Tokyo', 'Pacific/Kiritimati', 'UTC'),
+  mediaTypes: fc.oneof({ weight: 3, arbitrary: fc.constant([...mediaTypes]) }, { weight: 1, arbitrary: fc.subarray([...mediaTypes]) }),
+  turnaroundDays: fc.oneof({ weight: 2, arbitrary: allSkills }, { weight: 1, arbitrary: someSkills }),
+  healthDataAgreement: fc.oneof({ weight: 3, arbitrary: fc.constant(true) }, { weight: 1, arbitrary: fc.constant(false) }),
+  cleanAirCertificate: certificateArb,
+  openCases: fc.integer({ min: 0, max: 30 }),
+  queueCapacity: fc.oneof({ weight: 4, arbitrary: fc.integer({ min: 31, max: 60 }) }, { weight: 1, arbitrary: fc.integer({ min: 0, max: 30 }) }),
+  weeklyThroughput: fc.oneof({ weight: 8, arbitrary: fc.integer({ min: 1, max: 25 }) }, { weight: 1, arbitrary: fc.constant(0) }),
+});
+// One or two fields broken the ways a profile can be: out-of-range place, unknown zone, negative or
+// fractional counts, non-positive or non-finite turnaround.
+const corruption = fc.oneof(
+  badPoint.map((location) => ({ location })),
+  fc.constantFrom('Mars/Olympus', '', 'America/Nowhere').map((timeZone) => ({ timeZone })),
+  fc.constantFrom(-2, 1.5, Number.NaN).map((openCases) => ({ openCases })),
+  fc.constantFrom(-1, 2.5, Number.POSITIVE_INFINITY).map((queueCapacity) => ({ queueCapacity })),
+  fc.constantFrom(-1, Number.NaN, Number.POSITIVE_INFINITY).map((weeklyThroughput) => ({ weeklyThroughput })),
+  fc
+    .record({ skill: fc.constantFrom(...labSkills), days: fc.constantFrom(0, -0, -3, Number.NaN, Number.POSITIVE_INFINITY) })
+    .map(({ skill, days }) => ({ turnaround: { [skill]: days } })),
+);
+const malformedLab: fc.Arbitrary<RoutingLab> = fc
+  .tuple(wellFormedLab, fc.array(corruption, { minLength: 1, maxLength: 2 }))
+  .map(([lab, faults]) => {
+    const broken: RoutingLab = { ...lab, turnaroundDays: { ...lab.turnaroundDays } };
+    for (const { turnaround, ...fields } of faults as Array<Partial<RoutingLab> & { turnaround?: Partial<Record<LabSkill, number>> }>) {
+      Object.assign(broken, fields);
+      Object.assign(broken.turnaroundDays, turnaround);
+    }
+    return broken;
+  });
+// Labs that pass every check, with few distinct places and figures, so equal estimates and distances occur.
+const eligibleLab: fc.Arbitrary<RoutingLab> = fc.record({
+  id: fc.constantFrom(...labIdPool),
+  name: fc.constantFrom('Alpha', 'alpha', 'Beta'),
+  active: fc.constant(true),
+  location: fc.constantFrom(...Object.values(places)),
+  timeZone: fc.constantFrom('America/New_York', 'America/Chicago'),
+  mediaTypes: fc.constant([...mediaTypes]),
+  turnaroundDays: fc.integer({ min: 3, max: 5 }).map((days) => Object.fromEntries(labSkills.map((s, i) => [s, days + (i % 2)]))),
+  healthDataAgreement: fc.constant(true),
+  cleanAirCertificate: fc.constant(certificate('2026-01-10', 900)),
+  openCases: fc.integer({ min: 0, max: 4 }),
+  queueCapacity: fc.constant(40),
+  weeklyThroughput: fc.constantFrom(5, 10),
+});
+const randomLab = fc.oneof({ weight: 4, arbitrary: wellFormedLab }, { weight: 1, arbitrary: malformedLab }, { weight: 3, arbitrary: eligibleLab });
+const randomCase: fc.Arbitrary<RoutingCase> = fc.record({
+  mediaType: fc.constantFrom(...mediaTypes),
+  shopLocation: fc.oneof(fc.constantFrom(columbusShop, ...Object.values(places)), usPoint, anyPoint),
+  requirements: fc.record({
+    requiredSkills: fc.oneof(
+      fc.constantFrom<LabSkill[]>(['hdd_head_swap'], ['hdd_electronics', 'hdd_platter_work'], ['logical'], ['hdd_platter_work', 'hdd_head_swap']),
+      fc.shuffledSubarray([...labSkills], { minLength: 1, maxLength: 4 }),
+    ),
+    needsCleanAir: fc.boolean(),
+    needsHealthDataAgreement: fc.oneof({ weight: 2, arbitrary: fc.constant(false) }, { weight: 1, arbitrary: fc.constant(true) }),
+    batteryHazard: fc.option(fc.boolean(), { nil: undefined }),
+  }),
+});
+const randomOptions: fc.Arbitrary<RoutingOptions> = fc.record(
+  {
+    // Mostly around the certificates' dates (first and last current days in different zones), sometimes anywhere.
+    asOf: fc.oneof(
+      {
+        weight: 3,
+        arbitrary: fc.constantFrom(asOf, new Date('2026-03-03T06:00:00Z'), new Date('2026-03-02T23:30:00Z'), new Date('2026-07-10T23:59:59Z'), new Date('2026-01-10T00:30:00Z')),
+      },
+      { weight: 1, arbitrary: fc.date({ min: new Date('2025-06-01T00:00:00Z'), max: new Date('2027-06-01T00:00:00Z'), noInvalidDate: true }) },
+    ),
+    shippingMode: fc.constantFrom<ShippingMode>('ground', 'air'),
+    previouslyOfferedLabIds: fc.subarray(labIdPool, { maxLength: 2 }),
+  },
+  { requiredKeys: ['asOf'] },
+);
+
+// Same values, same key order (what the API serialises), same absent-versus-undefined fields.
+function expectSameResult(actual: RoutingResult, expected: RoutingResult) {
+  expect(actual).toStrictEqual(expected);
+  expect(JSON.stringify(actual)).toBe(JSON.stringify(expected));
+}
+
+describe('routeCase matches its earlier implementation exactly', () => {
+  it('over random labs, including malformed profiles, and random cases', () => {
+    fc.assert(
+      fc.property(fc.array(randomLab, { maxLength: 14 }), randomCase, randomOptions, (labs, kase, options) => {
+        expectSameResult(routeCase(kase, labs, options), referenceRouteCase(kase, labs, options));
+      }),
+      { numRuns: 400 },
     );
   });
 });
