@@ -1,5 +1,6 @@
 import type PgBoss from 'pg-boss';
 import type { DataSource, EntityManager } from 'typeorm';
+import { appendBufferOf, newRowId } from '../db/appends';
 import { currentRequestId, logger } from '../lib/logger';
 import { JobOutboxRow } from './entities';
 import { queueNames, type QueueName } from './queue';
@@ -14,6 +15,19 @@ export interface EnqueueOptions {
 /** Writes a job inside the caller's transaction; the relay hands it to pg-boss once committed. */
 export async function enqueueJob(manager: EntityManager, queue: QueueName, data: Record<string, unknown>, options: EnqueueOptions = {}): Promise<string> {
   if (!queueNames.includes(queue)) throw new Error(`unknown queue "${queue}"`);
+  const buffer = appendBufferOf(manager);
+  if (buffer) {
+    const id = newRowId();
+    buffer.jobs.push({
+      id,
+      queue,
+      data: { ...data, requestId: currentRequestId() ?? null },
+      startAfter: options.startAfter ?? new Date(),
+      singletonKey: options.singletonKey ?? null,
+      requestId: currentRequestId() ?? null,
+    });
+    return id;
+  }
   const row = await manager.save(
     manager.create(JobOutboxRow, {
       queue,

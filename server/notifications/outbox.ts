@@ -1,5 +1,6 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { Transporter } from 'nodemailer';
+import { appendBufferOf, newRowId } from '../db/appends';
 import { currentRequestId, logger } from '../lib/logger';
 import { OutboxMessage } from './entities';
 import { emailTemplates, type EmailData, type EmailTemplate } from './templates';
@@ -12,6 +13,12 @@ export async function enqueueEmail<T extends EmailTemplate>(
   data: EmailData<T>,
 ): Promise<string> {
   const rendered = (emailTemplates[template] as (d: EmailData<T>) => { subject: string; text: string; html: string })(data);
+  const buffer = appendBufferOf(manager);
+  if (buffer) {
+    const id = newRowId();
+    buffer.outbox.push({ id, template, recipient: to, subject: rendered.subject, textBody: rendered.text, htmlBody: rendered.html, requestId: currentRequestId() ?? null });
+    return id;
+  }
   const result = await manager.insert(OutboxMessage, {
     template,
     recipient: to,

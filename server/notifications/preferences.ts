@@ -26,10 +26,13 @@ export function wantsEmail(preferences: Preferences | null | undefined, template
   return preferences?.[template] !== false;
 }
 
-/** A user by id, or by their e-mail address (unique across the network, stored lower-case). */
-export type UserRecipient = string | { id: string } | { email: string };
+/**
+ * A user by id, or by their e-mail address (unique across the network, stored lower-case), or as the
+ * caller has just read them (`known`), which saves reading them again.
+ */
+export type UserRecipient = string | { id: string } | { email: string } | { known: RecipientRow };
 
-interface RecipientRow {
+export interface RecipientRow {
   id: string;
   email: string;
   status: 'active' | 'invited' | 'disabled';
@@ -47,13 +50,19 @@ export async function enqueueEmailToUser<T extends EmailTemplate>(
   template: T,
   data: EmailData<T>,
 ): Promise<string | null> {
+  let user: RecipientRow | undefined;
   const byId = typeof recipient === 'string' || 'id' in recipient;
-  const key = typeof recipient === 'string' ? recipient : 'id' in recipient ? recipient.id : recipient.email.trim().toLowerCase();
-  const rows: RecipientRow[] = await manager.query(
-    `SELECT id, email, status, notification_preferences FROM users WHERE ${byId ? 'id = $1::uuid' : 'email = $1'}`,
-    [key],
-  );
-  const user = rows[0];
+  let key = '';
+  if (typeof recipient === 'object' && 'known' in recipient) {
+    user = recipient.known;
+  } else {
+    key = typeof recipient === 'string' ? recipient : 'id' in recipient ? recipient.id : recipient.email.trim().toLowerCase();
+    const rows: RecipientRow[] = await manager.query(
+      `SELECT id, email, status, notification_preferences FROM users WHERE ${byId ? 'id = $1::uuid' : 'email = $1'}`,
+      [key],
+    );
+    user = rows[0];
+  }
   if (!user) {
     logger.warn({ template, recipient: byId ? key : 'by e-mail' }, 'e-mail not queued: no such user');
     return null;

@@ -39,7 +39,9 @@ export function partnerApiRoutes(ctx: ServiceContext, storage: BlobStorage = sto
     res.json(openApiDocument(ctx.config));
   });
 
-  const withPhotos = async (dto: ReferralDto): Promise<ReferralDto> => ({ ...dto, photos: forKey(await listReferralPhotos(ctx.db.manager, dto.id)) });
+  // The case's own photo list says whether there are any; only then are they read again with their key links.
+  const withPhotos = async (dto: ReferralDto): Promise<ReferralDto> =>
+    dto.photos.length === 0 ? dto : { ...dto, photos: forKey(await listReferralPhotos(ctx.db.manager, dto.id)) };
 
   router.use(requireApiKey(ctx), perKeyRateLimit(ctx));
   // Per route, after the body is parsed (multer for photos), so that the fingerprint covers what was sent.

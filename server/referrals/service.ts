@@ -15,6 +15,7 @@ import {
 import type { AttentionItemDto } from '@shared/schemas/labs';
 import { caseStatusLabels, labSkillLabels, type CaseStatus } from '@shared/vocabulary';
 import { recordAudit } from '../audit';
+import { withBatchedAppends } from '../db/appends';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
@@ -153,8 +154,14 @@ export async function createReferral(
   options: { idempotencyKey?: string } = {},
 ): Promise<ReferralDto> {
   const input = parseInput(referralInput, rawInput);
-  const referralId = await ctx.db.transaction((manager) => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date() }));
-  return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId);
+  // Intake writes five timeline steps, e-mails and partner events: collected and written in one statement.
+  const opened = { replayed: false };
+  const referralId = await ctx.db.transaction(
+    async (manager) =>
+      (await withBatchedAppends(manager, () => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened })))
+        .result,
+  );
+  return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId, { justOpened: !opened.replayed });
 }
 
 /**
@@ -166,7 +173,7 @@ export async function openReferral(
   manager: EntityManager,
   who: { partnerOrganizationId: string; actor: ReferralActor },
   input: ReferralInputParsed,
-  options: { idempotencyKey?: string; now: Date },
+  options: { idempotencyKey?: string; now: Date; /** Set to true when an earlier case is answered. */ opened?: { replayed: boolean } },
 ): Promise<string> {
   const key = options.idempotencyKey ?? null;
   const hash = key ? createHash('sha256').update(stableJson(input)).digest('hex') : null;
@@ -179,6 +186,7 @@ export async function openReferral(
       if (existing.idempotencyHash !== hash) {
         throw AppError.conflict('That idempotency key was already used for a different referral', [{ path: 'Idempotency-Key', message: 'Used before with another body' }]);
       }
+      if (options.opened) options.opened.replayed = true;
       return existing.id;
     }
   }
@@ -240,7 +248,7 @@ export async function openReferral(
     }),
   );
 
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'opened',
     summary: `Opened by ${who.actor.name}${who.actor.type === 'api_key' ? ' (partner API)' : ''} for ${referral.customerName}.`,
     actor: who.actor,
@@ -251,7 +259,7 @@ export async function openReferral(
       consent: referral.consentRecordedAt ? { recordedAt: now.toISOString(), recordedBy: referral.consentRecordedBy } : null,
     },
   });
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'triaged',
     summary: `Needs ${triaged.requiredSkills.map((k) => labSkillLabels[k]).join(', ')}${triaged.needsCleanAir ? ' (in clean air)' : ''}; ${triaged.cautions.length} ${triaged.cautions.length === 1 ? 'caution' : 'cautions'} for the shop.`,
     actor: triageActor,
@@ -264,7 +272,9 @@ export async function openReferral(
       batteryHazard: triaged.batteryHazard,
     },
   });
-  await routeAndOffer(ctx, manager, referral, { trigger: 'intake', now });
+  referral.partnerOrganization = shop;
+  // A case opened just now has no offers yet.
+  await routeAndOffer(ctx, manager, referral, { trigger: 'intake', now, previouslyOfferedLabIds: [] });
   return referral.id;
 }
 
@@ -315,20 +325,25 @@ async function amountsOf(manager: EntityManager, referralId: string): Promise<Re
   };
 }
 
-export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string): Promise<ReferralDto> {
+/**
+ * One case as its shop or lab sees it. `justOpened` is for the answer to intake: a case opened in this
+ * request has no photos, labels or quote yet, so those are not looked up.
+ */
+export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string, options: { justOpened?: boolean } = {}): Promise<ReferralDto> {
   if (!UUID.test(id)) throw AppError.notFound('That case');
   const manager = ctx.db.manager;
-  // Scoped in the query itself: another shop's case is simply not found.
-  const referral = await manager.findOne(Referral, {
+  // Scoped in the query itself: another shop's case is simply not found. (find, not findOne: with
+  // relations, findOne's limit costs TypeORM a second query.)
+  const [referral] = await manager.find(Referral, {
     where: { id, ...scopeWhere(scope) },
     relations: { partnerOrganization: true, labOrganization: true },
   });
   if (!referral) throw AppError.notFound('That case');
   const [parts, photos, shipments, amounts] = await Promise.all([
     loadParts(manager, referral),
-    listReferralPhotos(manager, referral.id),
-    shipmentsOf(manager, referral.id),
-    amountsOf(manager, referral.id),
+    options.justOpened ? [] : listReferralPhotos(manager, referral.id),
+    options.justOpened ? [] : shipmentsOf(manager, referral.id),
+    options.justOpened ? null : amountsOf(manager, referral.id),
   ]);
   const dto = toReferralDto({
     referral,
@@ -424,7 +439,7 @@ export async function cancelInTransaction(manager: EntityManager, referral: Refe
     }
   }
   await manager.update(Referral, referral.id, { status: 'cancelled', cancelledAt: now, attentionReason: null });
-  await recordTimeline(manager, referral.id, { kind: 'cancelled', summary: `Cancelled by ${actor.name}.`, actor, at: now, details: { previousStatus: referral.status } });
+  await recordTimeline(manager, referral, { kind: 'cancelled', summary: `Cancelled by ${actor.name}.`, actor, at: now, details: { previousStatus: referral.status } });
   referral.status = 'cancelled';
 }
 

@@ -42,6 +42,7 @@ const caseUrl = (ctx: ServiceContext, referralId: string) => `${ctx.config.appUr
 const offersUrl = (ctx: ServiceContext) => `${ctx.config.appUrl}/lab/offers`;
 
 async function partnerName(manager: EntityManager, referral: Referral): Promise<string> {
+  if (referral.partnerOrganization?.name) return referral.partnerOrganization.name;
   const rows: { name: string }[] = await manager.query(`SELECT name FROM organizations WHERE id = $1`, [referral.partnerOrganizationId]);
   return rows[0]?.name ?? 'the shop';
 }
@@ -89,7 +90,7 @@ export async function acceptInTransaction(
   Object.assign(offer, { status: 'accepted', respondedAt: how.now, respondedByName: how.actor.name, autoAccepted: auto });
   await manager.update(Referral, referral.id, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
   Object.assign(referral, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'offer_accepted',
     summary: auto
       ? `Accepted for ${lab.name} by its auto-accept rule (${skillList(how.rule!.skills)} within ${how.rule!.maxDistanceKm} km).`
@@ -99,7 +100,7 @@ export async function acceptInTransaction(
     details: { offerId: offer.id, labId: lab.id, autoAccepted: auto, ...(auto ? { rule: how.rule } : {}) },
   });
   for (const person of await shopUsers(manager, referral.partnerOrganizationId)) {
-    await enqueueEmailToUser(manager, { email: person.email }, 'referral_accepted', {
+    await enqueueEmailToUser(manager, { known: person }, 'referral_accepted', {
       name: person.name,
       reference: referral.reference,
       customerName: referral.customerName,
@@ -110,7 +111,7 @@ export async function acceptInTransaction(
   if (auto) {
     const shop = await partnerName(manager, referral);
     for (const person of await labManagers(manager, lab.id)) {
-      await enqueueEmailToUser(manager, { email: person.email }, 'lab_case_auto_accepted', {
+      await enqueueEmailToUser(manager, { known: person }, 'lab_case_auto_accepted', {
         name: person.name,
         labName: lab.name,
         reference: referral.reference,
@@ -140,7 +141,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
       assignedByUserId: terms.assignedByUserId ?? null,
     }),
   );
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'offered',
     summary: `Offered to ${lab.name} until ${formatLocal(deadline, lab.timeZone)}.`,
     actor: terms.actor,
@@ -160,7 +161,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
   await enqueueJob(manager, queues.offerExpire, { offerId: offer.id }, { startAfter: deadline, singletonKey: offer.id });
   const shop = await partnerName(manager, referral);
   for (const person of await labManagers(manager, lab.id)) {
-    await enqueueEmailToUser(manager, { email: person.email }, 'lab_offer_new', {
+    await enqueueEmailToUser(manager, { known: person }, 'lab_offer_new', {
       name: person.name,
       labName: lab.name,
       reference: referral.reference,
@@ -177,10 +178,10 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
 async function markNeedsAttention(ctx: ServiceContext, manager: EntityManager, referral: Referral, reason: string, now: Date): Promise<DispatchOutcome> {
   await manager.update(Referral, referral.id, { status: 'needs_attention', attentionReason: reason });
   Object.assign(referral, { status: 'needs_attention', attentionReason: reason });
-  await recordTimeline(manager, referral.id, { kind: 'needs_attention', summary: `Waiting for the network to route it by hand. ${reason}`, actor: routingActor, at: now, details: { reason } });
+  await recordTimeline(manager, referral, { kind: 'needs_attention', summary: `Waiting for the network to route it by hand. ${reason}`, actor: routingActor, at: now, details: { reason } });
   const shop = await partnerName(manager, referral);
   for (const person of await networkAdmins(manager)) {
-    await enqueueEmailToUser(manager, { email: person.email }, 'referral_needs_attention', {
+    await enqueueEmailToUser(manager, { known: person }, 'referral_needs_attention', {
       name: person.name,
       reference: referral.reference,
       shop,
@@ -192,15 +193,18 @@ async function markNeedsAttention(ctx: ServiceContext, manager: EntityManager, r
 }
 
 /** Ranks the labs now (leaving out those already offered the case) and offers it to the best one. */
-export async function routeAndOffer(ctx: ServiceContext, manager: EntityManager, referral: Referral, options: { trigger: RoutingTrigger; now: Date }): Promise<DispatchOutcome> {
-  const previous = await manager.find(LabOffer, { where: { referralId: referral.id } });
-  const ranking = await rankLabs(manager, caseForRouting(referral), {
-    asOf: options.now,
-    previouslyOfferedLabIds: [...new Set(previous.map((o) => o.labOrganizationId))],
-  });
+export async function routeAndOffer(
+  ctx: ServiceContext,
+  manager: EntityManager,
+  referral: Referral,
+  options: { trigger: RoutingTrigger; now: Date; /** When the caller knows them (none, at intake). */ previouslyOfferedLabIds?: readonly string[] },
+): Promise<DispatchOutcome> {
+  const previouslyOfferedLabIds =
+    options.previouslyOfferedLabIds ?? [...new Set((await manager.find(LabOffer, { where: { referralId: referral.id } })).map((o) => o.labOrganizationId))];
+  const ranking = await rankLabs(manager, caseForRouting(referral), { asOf: options.now, previouslyOfferedLabIds });
   const snapshot = await saveSnapshot(manager, referral, ranking, options.trigger);
   const n = ranking.candidates.length;
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'routed',
     summary:
       n === 0
@@ -229,7 +233,7 @@ export async function withdrawPendingOffer(manager: EntityManager, referral: Ref
   await manager.update(LabOffer, offer.id, { status: 'withdrawn', respondedAt: why.now });
   offer.status = 'withdrawn';
   const labName: string = (await manager.query(`SELECT name FROM organizations WHERE id = $1`, [offer.labOrganizationId]))[0]?.name ?? 'the lab';
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'offer_withdrawn',
     summary: `Offer to ${labName} withdrawn: ${why.reason}`,
     actor: why.actor,
@@ -237,7 +241,7 @@ export async function withdrawPendingOffer(manager: EntityManager, referral: Ref
     details: { offerId: offer.id, labId: offer.labOrganizationId },
   });
   for (const person of await labManagers(manager, offer.labOrganizationId)) {
-    await enqueueEmailToUser(manager, { email: person.email }, 'lab_offer_withdrawn', { name: person.name, labName, reference: referral.reference, reason: why.reason });
+    await enqueueEmailToUser(manager, { known: person }, 'lab_offer_withdrawn', { name: person.name, labName, reference: referral.reference, reason: why.reason });
   }
   return offer;
 }
@@ -258,7 +262,7 @@ export async function declineInTransaction(
     declineReason: how.input.reason,
     declineNote: how.input.note ?? null,
   });
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'offer_declined',
     summary: `Declined by ${labName}: ${declineReasonLabels[how.input.reason]}${how.input.note ? ` (${how.input.note})` : ''}.`,
     actor: how.actor,
@@ -272,7 +276,7 @@ export async function expireInTransaction(ctx: ServiceContext, manager: EntityMa
   await manager.update(LabOffer, offer.id, { status: 'expired' });
   offer.status = 'expired';
   const lab: { name: string; time_zone: string } | undefined = (await manager.query(`SELECT name, time_zone FROM organizations WHERE id = $1`, [offer.labOrganizationId]))[0];
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'offer_expired',
     summary: `${lab?.name ?? 'The lab'} did not answer by ${formatLocal(offer.deadline, lab?.time_zone ?? 'UTC')}; offering it to the next lab.`,
     actor: deadlineActor,
@@ -328,7 +332,7 @@ export async function assignInTransaction(
   const snapshot = await saveSnapshot(manager, referral, ranking, 'manual');
   const candidate = ranking.candidates.find((c) => c.labId === lab.id);
   if (!lab.location) throw AppError.validation([{ path: 'labId', message: 'That lab has no location on file' }]);
-  await recordTimeline(manager, referral.id, {
+  await recordTimeline(manager, referral, {
     kind: 'assigned',
     summary: `${how.actor.name} routed the case to ${lab.name} by hand${how.note ? `: ${how.note}` : '.'}`,
     actor: how.actor,

@@ -5,24 +5,30 @@ import type { Referral } from '../referrals/entities';
 
 // Who hears about offers and acceptances, and how a case reads in a subject line.
 
+/** A person to e-mail, read with what enqueueEmailToUser needs so that it need not read them again. */
 export interface Recipient {
+  id: string;
   email: string;
   name: string;
+  status: 'active' | 'invited' | 'disabled';
+  notification_preferences: Record<string, boolean> | null;
 }
 
+const RECIPIENT = `u.id, u.email, u.name, u.status, u.notification_preferences`;
+
 export async function labManagers(manager: EntityManager, labId: string): Promise<Recipient[]> {
-  return manager.query(`SELECT email, name FROM users WHERE organization_id = $1 AND role = 'lab_manager' AND status = 'active' ORDER BY email`, [labId]);
+  return manager.query(`SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role = 'lab_manager' AND u.status = 'active' ORDER BY u.email`, [labId]);
 }
 
 export async function shopUsers(manager: EntityManager, partnerId: string): Promise<Recipient[]> {
   return manager.query(
-    `SELECT email, name FROM users WHERE organization_id = $1 AND role IN ('partner_admin', 'partner_staff') AND status = 'active' ORDER BY email`,
+    `SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role IN ('partner_admin', 'partner_staff') AND u.status = 'active' ORDER BY u.email`,
     [partnerId],
   );
 }
 
 export async function networkAdmins(manager: EntityManager): Promise<Recipient[]> {
-  return manager.query(`SELECT u.email, u.name FROM users u JOIN organizations o ON o.id = u.organization_id
+  return manager.query(`SELECT ${RECIPIENT} FROM users u JOIN organizations o ON o.id = u.organization_id
                         WHERE u.role = 'network_admin' AND u.status = 'active' AND o.active ORDER BY u.email`);
 }
 

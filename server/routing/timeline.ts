@@ -1,6 +1,7 @@
 import type { EntityManager } from 'typeorm';
+import { appendBufferOf, newRowId } from '../db/appends';
 import { TimelineEntry, type TimelineActorType } from '../referrals/entities';
-import { emitForTimelineEntry } from '../webhooks';
+import { emitForTimelineEntry, type CaseForEvent } from '../webhooks';
 
 export interface TimelineActor {
   type: TimelineActorType;
@@ -20,10 +21,30 @@ export interface TimelineInput {
   at?: Date;
 }
 
-/** Appends one step to a case's timeline, in the caller's transaction, with its partner event if it has one. */
-export async function recordTimeline(manager: EntityManager, referralId: string, entry: TimelineInput): Promise<void> {
+/**
+ * Appends one step to a case's timeline, in the caller's transaction, with its partner event if it has one.
+ * Given the case itself (as the caller holds it, status up to date) rather than its id, the event is
+ * built without reading the case again.
+ */
+export async function recordTimeline(manager: EntityManager, referral: string | CaseForEvent, entry: TimelineInput): Promise<void> {
   const at = entry.at ?? new Date();
-  await emitForTimelineEntry(manager, referralId, { kind: entry.kind, summary: entry.summary, at, actorName: entry.actor.name, details: entry.details });
+  const referralId = typeof referral === 'string' ? referral : referral.id;
+  await emitForTimelineEntry(manager, referral, { kind: entry.kind, summary: entry.summary, at, actorName: entry.actor.name, details: entry.details });
+  const buffer = appendBufferOf(manager);
+  if (buffer) {
+    buffer.timeline.push({
+      id: newRowId(),
+      referralId,
+      at,
+      kind: entry.kind,
+      summary: entry.summary,
+      actorType: entry.actor.type,
+      actorId: entry.actor.id ?? null,
+      actorName: entry.actor.name,
+      details: entry.details ?? {},
+    });
+    return;
+  }
   await manager.save(
     manager.create(TimelineEntry, {
       referralId,

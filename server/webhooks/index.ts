@@ -2,4 +2,4 @@ export { WebhookAttempt, WebhookDelivery, WebhookEndpoint, WebhookEvent } from '
 export { webhookRoutes } from './routes';
 export { emitPartnerEvent, dispatchWebhooks, type DispatchWebhookOptions } from './service';
 export { signWebhook, webhookHeaders } from './signing';
-export { emitForTimelineEntry, partnerEventForTimelineKind } from './timeline-events';
+export { emitForTimelineEntry, partnerEventForTimelineKind, type CaseForEvent } from './timeline-events';

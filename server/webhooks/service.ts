@@ -3,6 +3,7 @@ import type { CreateWebhookEndpointInput, PartnerEventType, WebhookDeliveryDto, 
 import { createWebhookEndpointInput, updateWebhookEndpointInput } from '@shared/schemas/webhooks';
 import type { z } from 'zod';
 import { recordAudit } from '../audit';
+import { appendBufferOf, newRowId } from '../db/appends';
 import { User } from '../auth';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
@@ -110,6 +111,13 @@ export async function resendDelivery(ctx: ServiceContext, actor: Actor, endpoint
  * subscribed, active endpoint; nothing is sent unless the change commits.
  */
 export async function emitPartnerEvent(manager: EntityManager, organizationId: string, type: PartnerEventType, data: Record<string, unknown>): Promise<string | null> {
+  const buffer = appendBufferOf(manager);
+  if (buffer) {
+    // Written at the end of the transaction, and only where an endpoint wants it (see db/appends.ts).
+    const id = newRowId();
+    buffer.events.push({ id, organizationId, type, payload: JSON.stringify({ type, timestamp: new Date().toISOString(), data }) });
+    return id;
+  }
   const endpoints: { id: string }[] = await manager.query(
     `SELECT id FROM webhook_endpoints WHERE organization_id = $1 AND status = 'active' AND $2 = ANY(events)`,
     [organizationId, type],

@@ -24,20 +24,35 @@ export const partnerEventForTimelineKind: Record<string, PartnerEventType> = {
   closed: 'referral.closed',
 };
 
+/** What a partner event says about its case: the case as its caller holds it, current status included. */
+export interface CaseForEvent {
+  id: string;
+  partnerOrganizationId: string;
+  reference: string;
+  externalRef: string | null;
+  status: string;
+}
+
 export async function emitForTimelineEntry(
   manager: EntityManager,
-  referralId: string,
+  referral: string | CaseForEvent,
   entry: { kind: string; summary: string; at: Date; actorName: string; details?: Record<string, unknown> },
 ): Promise<void> {
   const type = partnerEventForTimelineKind[entry.kind];
   if (!type) return;
-  const [row]: { partner_organization_id: string; reference: string; external_ref: string | null; status: string }[] = await manager.query(
-    `SELECT partner_organization_id, reference, external_ref, status FROM referrals WHERE id = $1`,
-    [referralId],
-  );
-  if (!row) return;
-  await emitPartnerEvent(manager, row.partner_organization_id, type, {
-    referral: { id: referralId, reference: row.reference, externalRef: row.external_ref, status: row.status },
+  let kase: CaseForEvent | undefined;
+  if (typeof referral === 'string') {
+    const [row]: { partner_organization_id: string; reference: string; external_ref: string | null; status: string }[] = await manager.query(
+      `SELECT partner_organization_id, reference, external_ref, status FROM referrals WHERE id = $1`,
+      [referral],
+    );
+    if (row) kase = { id: referral, partnerOrganizationId: row.partner_organization_id, reference: row.reference, externalRef: row.external_ref, status: row.status };
+  } else {
+    kase = referral;
+  }
+  if (!kase) return;
+  await emitPartnerEvent(manager, kase.partnerOrganizationId, type, {
+    referral: { id: kase.id, reference: kase.reference, externalRef: kase.externalRef, status: kase.status },
     change: { kind: entry.kind, summary: entry.summary, at: entry.at.toISOString(), actor: entry.actorName, details: entry.details ?? {} },
   });
 }

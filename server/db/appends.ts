@@ -1,0 +1,176 @@
+import { randomUUID } from 'node:crypto';
+import type { EntityManager } from 'typeorm';
+
+// Rows that nothing reads back inside the transaction that writes them — timeline steps, outbox
+// e-mail, partner events with their deliveries, job outbox rows — may be collected and written in one
+// statement just before the transaction commits, instead of one round trip each. This is what keeps
+// intake (five timeline steps, several e-mails, a job) to a handful of statements. Collection happens
+// only inside `withBatchedAppends`; everywhere else each row is written at once, as before.
+
+export interface TimelineRow {
+  id: string;
+  referralId: string;
+  at: Date;
+  kind: string;
+  summary: string;
+  actorType: string;
+  actorId: string | null;
+  actorName: string;
+  details: Record<string, unknown>;
+}
+
+export interface OutboxRow {
+  id: string;
+  template: string;
+  recipient: string;
+  subject: string;
+  textBody: string;
+  htmlBody: string;
+  requestId: string | null;
+}
+
+/** A partner event: stored, with one delivery per active endpoint subscribed to it, only when there is one. */
+export interface PartnerEventRow {
+  id: string;
+  organizationId: string;
+  type: string;
+  payload: string;
+}
+
+export interface JobRow {
+  id: string;
+  queue: string;
+  data: Record<string, unknown>;
+  startAfter: Date;
+  singletonKey: string | null;
+  requestId: string | null;
+}
+
+export class AppendBuffer {
+  readonly timeline: TimelineRow[] = [];
+  readonly outbox: OutboxRow[] = [];
+  readonly events: PartnerEventRow[] = [];
+  readonly jobs: JobRow[] = [];
+
+  get size(): number {
+    return this.timeline.length + this.outbox.length + this.events.length + this.jobs.length;
+  }
+}
+
+const buffers = new WeakMap<EntityManager, AppendBuffer>();
+
+/** The buffer collecting this transaction's appends, or undefined when rows are written at once. */
+export function appendBufferOf(manager: EntityManager): AppendBuffer | undefined {
+  return buffers.get(manager);
+}
+
+export const newRowId = (): string => randomUUID();
+
+/**
+ * Runs `work` in the caller's transaction with appends collected, then writes them all in one
+ * statement (still inside the transaction, so they commit or roll back with everything else).
+ * Answers the work's result and what was written.
+ */
+export async function withBatchedAppends<T>(manager: EntityManager, work: () => Promise<T>): Promise<{ result: T; appended: AppendBuffer }> {
+  if (!manager.queryRunner?.isTransactionActive) throw new Error('withBatchedAppends needs a transaction');
+  if (buffers.has(manager)) throw new Error('withBatchedAppends is already collecting for this transaction');
+  const buffer = new AppendBuffer();
+  buffers.set(manager, buffer);
+  try {
+    const result = await work();
+    await flushAppends(manager, buffer);
+    return { result, appended: buffer };
+  } finally {
+    buffers.delete(manager);
+  }
+}
+
+// Each list arrives as one JSON array whose keys are the table's column names; WITH ORDINALITY keeps
+// the order the rows were recorded in, so a timeline's positions follow the order of its steps.
+const rows = (param: string, table: string) =>
+  `jsonb_array_elements(${param}::jsonb) WITH ORDINALITY AS e(j, ord), LATERAL jsonb_populate_record(NULL::${table}, e.j) AS r`;
+
+const FLUSH_SQL = `
+  WITH
+  tl AS (
+    INSERT INTO referral_timeline (id, referral_id, at, kind, summary, actor_type, actor_id, actor_name, details)
+    SELECT r.id, r.referral_id, r.at, r.kind, r.summary, r.actor_type, r.actor_id, r.actor_name, r.details
+    FROM ${rows('$1', 'referral_timeline')} ORDER BY e.ord
+    RETURNING 1
+  ),
+  ob AS (
+    INSERT INTO outbox_messages (id, template, recipient, subject, text_body, html_body, request_id)
+    SELECT r.id, r.template, r.recipient, r.subject, r.text_body, r.html_body, r.request_id
+    FROM ${rows('$2', 'outbox_messages')} ORDER BY e.ord
+    RETURNING 1
+  ),
+  ev_in AS (
+    SELECT r.id, r.organization_id, r.type, r.payload, e.ord FROM ${rows('$3', 'webhook_events')}
+  ),
+  targets AS (
+    SELECT ep.id AS endpoint_id, ev_in.id AS event_id, ev_in.ord
+    FROM ev_in JOIN webhook_endpoints ep
+      ON ep.organization_id = ev_in.organization_id AND ep.status = 'active' AND ev_in.type = ANY(ep.events)
+  ),
+  ev AS (
+    INSERT INTO webhook_events (id, organization_id, type, payload)
+    SELECT ev_in.id, ev_in.organization_id, ev_in.type, ev_in.payload FROM ev_in
+    WHERE ev_in.id IN (SELECT event_id FROM targets)
+    ORDER BY ev_in.ord
+    RETURNING id
+  ),
+  dl AS (
+    INSERT INTO webhook_deliveries (endpoint_id, event_id, status, next_attempt_at)
+    SELECT t.endpoint_id, ev.id, 'pending', now() FROM targets t JOIN ev ON ev.id = t.event_id
+    ORDER BY t.ord
+    RETURNING 1
+  ),
+  jb AS (
+    INSERT INTO job_outbox (id, queue, data, start_after, singleton_key, request_id)
+    SELECT r.id, r.queue, r.data, r.start_after, r.singleton_key, r.request_id
+    FROM ${rows('$4', 'job_outbox')} ORDER BY e.ord
+    RETURNING 1
+  )
+  SELECT (SELECT count(*) FROM tl)::int AS timeline, (SELECT count(*) FROM ob)::int AS outbox,
+         (SELECT count(*) FROM ev)::int AS events, (SELECT count(*) FROM dl)::int AS deliveries, (SELECT count(*) FROM jb)::int AS jobs`;
+
+async function flushAppends(manager: EntityManager, buffer: AppendBuffer): Promise<void> {
+  if (buffer.size === 0) return;
+  await manager.query(FLUSH_SQL, [
+    JSON.stringify(
+      buffer.timeline.map((t) => ({
+        id: t.id,
+        referral_id: t.referralId,
+        at: t.at.toISOString(),
+        kind: t.kind,
+        summary: t.summary,
+        actor_type: t.actorType,
+        actor_id: t.actorId,
+        actor_name: t.actorName,
+        details: t.details,
+      })),
+    ),
+    JSON.stringify(
+      buffer.outbox.map((m) => ({
+        id: m.id,
+        template: m.template,
+        recipient: m.recipient,
+        subject: m.subject,
+        text_body: m.textBody,
+        html_body: m.htmlBody,
+        request_id: m.requestId,
+      })),
+    ),
+    JSON.stringify(buffer.events.map((e) => ({ id: e.id, organization_id: e.organizationId, type: e.type, payload: e.payload }))),
+    JSON.stringify(
+      buffer.jobs.map((j) => ({
+        id: j.id,
+        queue: j.queue,
+        data: j.data,
+        start_after: j.startAfter.toISOString(),
+        singleton_key: j.singletonKey,
+        request_id: j.requestId,
+      })),
+    ),
+  ]);
+}

@@ -1,0 +1,133 @@
+import request from 'supertest';
+import { describe, expect, it } from 'vitest';
+import { appendBufferOf, withBatchedAppends } from '../../server/db/appends';
+import { enqueueEmail } from '../../server/notifications';
+import { recordTimeline } from '../../server/routing/timeline';
+import { setupApi, signIn } from '../support/api';
+import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
+
+// Intake collects its timeline steps, e-mails, partner events and jobs and writes them in one
+// statement before commit (server/db/appends.ts). These tests check that what lands is what the
+// step-by-step writes would have left: same rows, same order, same answer to the shop.
+const { app, db } = await setupApi();
+
+async function shop(events: string[]) {
+  const org = await createOrganization(db, 'partner');
+  await db.query(`UPDATE organizations SET postal_code = '59801', lat = 46.87, lon = -113.99 WHERE id = $1`, [org.id]);
+  const admin = await createUser(db, { role: 'partner_admin', organizationId: org.id });
+  const token = (await signIn(app, admin.email, TEST_PASSWORD)).accessToken;
+  const key = await request(app).post('/api/partner/api-keys').set('Authorization', `Bearer ${token}`).send({ name: 'Ticketing' });
+  expect(key.status).toBe(201);
+  if (events.length) {
+    const hook = await request(app).post('/api/partner/webhooks').set('Authorization', `Bearer ${token}`).send({ url: 'http://127.0.0.1:9/hooks', events });
+    expect(hook.status).toBe(201);
+  }
+  return { org, admin, key: `Bearer ${key.body.key as string}` };
+}
+
+const body = {
+  customer: { name: 'Ada Customer', email: 'ada@customer.example' },
+  device: { mediaType: 'hdd_3_5', capacityGb: 2000 },
+  symptoms: ['clicking'],
+  priorities: [{ category: 'photos', note: 'Wedding' }],
+  sensitivity: [],
+};
+
+describe('intake writes its appended rows in one go', () => {
+  it('answers with the case exactly as a later read of it shows it', async () => {
+    const { key } = await shop([]);
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', key).send(body);
+    expect(created.status).toBe(201);
+    const read = await request(app).get(`/api/v1/referrals/${created.body.id}`).set('Authorization', key);
+    expect(read.status).toBe(200);
+    expect(created.body).toEqual(read.body);
+  });
+
+  it('keeps the timeline in the order of its steps', async () => {
+    const { key } = await shop([]);
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', key).send(body);
+    const rows: { kind: string }[] = await db.query(`SELECT kind FROM referral_timeline WHERE referral_id = $1 ORDER BY position`, [created.body.id]);
+    const kinds = rows.map((r) => r.kind);
+    expect(kinds.slice(0, 3)).toEqual(['opened', 'triaged', 'routed']);
+    expect(created.body.timeline.map((t: { kind: string }) => t.kind)).toEqual(kinds);
+  });
+
+  it('stores a partner event only where an active endpoint subscribed to it, with one delivery each', async () => {
+    const { org, key } = await shop(['referral.created']);
+    const created = await request(app).post('/api/v1/referrals').set('Authorization', key).send(body);
+    expect(created.status).toBe(201);
+    const events: { type: string; payload: string; deliveries: number }[] = await db.query(
+      `SELECT e.type, e.payload, (SELECT count(*)::int FROM webhook_deliveries d WHERE d.event_id = e.id) AS deliveries
+       FROM webhook_events e WHERE e.organization_id = $1`,
+      [org.id],
+    );
+    // The case was also routed (and offered or queued), but the endpoint asked for referral.created only.
+    expect(events.map((e) => [e.type, e.deliveries])).toEqual([['referral.created', 1]]);
+    expect(JSON.parse(events[0].payload).data.referral).toMatchObject({ id: created.body.id, reference: created.body.reference, status: 'opened' });
+  });
+
+  it('stores no event at all for a shop without endpoints', async () => {
+    const { org, key } = await shop([]);
+    await request(app).post('/api/v1/referrals').set('Authorization', key).send(body);
+    const [{ count }] = await db.query(`SELECT count(*)::int AS count FROM webhook_events WHERE organization_id = $1`, [org.id]);
+    expect(count).toBe(0);
+  });
+});
+
+describe('withBatchedAppends', () => {
+  async function someCase() {
+    const { key } = await shop([]);
+    return (await request(app).post('/api/v1/referrals').set('Authorization', key).send(body)).body as { id: string };
+  }
+  const step = (kind: string) => ({ kind, summary: `Step ${kind}`, actor: { type: 'system' as const, name: 'test' } });
+  const timelineCount = async (q: { query: typeof db.query }, id: string) =>
+    (await q.query(`SELECT count(*)::int AS n FROM referral_timeline WHERE referral_id = $1`, [id]))[0].n as number;
+
+  it('writes nothing until the work is done, then every row in the order recorded', async () => {
+    const kase = await someCase();
+    const before = await timelineCount(db, kase.id);
+    await db.transaction(async (manager) => {
+      const { appended } = await withBatchedAppends(manager, async () => {
+        await recordTimeline(manager, kase.id, step('note_a'));
+        await recordTimeline(manager, kase.id, step('note_b'));
+        await enqueueEmail(manager, 'ordered@test.example', 'password_reset', { name: 'Ordered', url: 'http://app.test/reset', minutes: 60 });
+        expect(await timelineCount(manager, kase.id)).toBe(before);
+        expect(appendBufferOf(manager)?.size).toBe(3);
+      });
+      expect(appended.timeline.map((t) => t.kind)).toEqual(['note_a', 'note_b']);
+      expect(await timelineCount(manager, kase.id)).toBe(before + 2);
+    });
+    const rows: { kind: string }[] = await db.query(`SELECT kind FROM referral_timeline WHERE referral_id = $1 ORDER BY position DESC LIMIT 2`, [kase.id]);
+    expect(rows.map((r) => r.kind)).toEqual(['note_b', 'note_a']);
+    const [{ n }] = await db.query(`SELECT count(*)::int AS n FROM outbox_messages WHERE recipient = 'ordered@test.example'`);
+    expect(n).toBe(1);
+  });
+
+  it('leaves nothing behind when the transaction fails', async () => {
+    const kase = await someCase();
+    const before = await timelineCount(db, kase.id);
+    await expect(
+      db.transaction(async (manager) => {
+        await withBatchedAppends(manager, async () => {
+          await recordTimeline(manager, kase.id, step('doomed'));
+          await enqueueEmail(manager, 'doomed@test.example', 'password_reset', { name: 'Doomed', url: 'http://app.test/reset', minutes: 60 });
+        });
+        throw new Error('a later step failed');
+      }),
+    ).rejects.toThrow('a later step failed');
+    expect(await timelineCount(db, kase.id)).toBe(before);
+    const [{ n }] = await db.query(`SELECT count(*)::int AS n FROM outbox_messages WHERE recipient = 'doomed@test.example'`);
+    expect(n).toBe(0);
+  });
+
+  it('writes at once outside it, and refuses to collect outside a transaction', async () => {
+    const kase = await someCase();
+    const before = await timelineCount(db, kase.id);
+    await db.transaction(async (manager) => {
+      await recordTimeline(manager, kase.id, step('immediate'));
+      expect(appendBufferOf(manager)).toBeUndefined();
+      expect(await timelineCount(manager, kase.id)).toBe(before + 1);
+    });
+    await expect(withBatchedAppends(db.manager, async () => undefined)).rejects.toThrow(/needs a transaction/);
+  });
+});
