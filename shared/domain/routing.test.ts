@@ -1,4 +1,5 @@
 import fc from 'fast-check';
+import geographiclib from 'geographiclib-geodesic';
 import { DateTime } from 'luxon';
 import { describe, expect, it } from 'vitest';
 import { cleanAirSkills, labSkillLabels, labSkills, mediaTypeLabels, mediaTypes, type LabSkill } from '../vocabulary';
@@ -13,6 +14,7 @@ import {
 import { geodesicDistanceKm, kmToMiles, type LatLon } from './geo';
 import {
   BUSINESS_DAYS_PER_WEEK,
+  prepareRoutingLabs,
   routeCase,
   type ExcludedLab,
   type ExclusionReason,
@@ -715,5 +717,89 @@ describe('routeCase matches its earlier implementation exactly', () => {
       }),
       { numRuns: 400 },
     );
+  });
+
+  const countsArb = fc
+    .array(
+      fc.tuple(
+        fc.constantFrom(...labIdPool),
+        fc.oneof({ weight: 8, arbitrary: fc.integer({ min: 0, max: 60 }) }, { weight: 1, arbitrary: fc.constantFrom(-1, 2.5, Number.NaN) }),
+      ),
+      { maxLength: 8 },
+    )
+    .map((entries) => new Map(entries));
+
+  it('with the labs prepared once and several cases routed against them, with and without fresh open-case counts', () => {
+    fc.assert(
+      fc.property(
+        fc.array(randomLab, { maxLength: 14 }),
+        fc.array(fc.tuple(randomCase, randomOptions, fc.option(countsArb, { nil: undefined })), { minLength: 1, maxLength: 3 }),
+        (labs, runs) => {
+          const prepared = prepareRoutingLabs(labs);
+          for (const [kase, options, counts] of runs) {
+            // The oracle knows no count map: give it the labs with the counts the map stands for.
+            const asGiven = counts ? labs.map((l) => ({ ...l, openCases: counts.get(l.id) ?? 0 })) : labs;
+            const expected = referenceRouteCase(kase, asGiven, options);
+            expectSameResult(routeCase(kase, prepared, counts ? { ...options, openCases: counts } : options), expected);
+            if (counts) expectSameResult(routeCase(kase, labs, { ...options, openCases: counts }), expected);
+          }
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
+});
+
+describe('routeCase: prepared labs and fresh open-case counts', () => {
+  it('routes a prepared index like the plain list, and again for a second case', () => {
+    const labs = [lab({ id: 'cin' }), lab({ id: 'day', location: places.dayton }), lab({ id: 'idle', weeklyThroughput: 0 })];
+    const prepared = prepareRoutingLabs(labs);
+    expect(routeCase(clickingDrive, prepared, { asOf })).toEqual(routeCase(clickingDrive, labs, { asOf }));
+    const burnt = caseFor({ mediaType: 'hdd_3_5', symptoms: ['burnt_smell'] });
+    expect(routeCase(burnt, prepared, { asOf })).toEqual(routeCase(burnt, labs, { asOf }));
+  });
+
+  it('takes open cases from the map, a lab absent from it having none', () => {
+    // The profile says 40 of 40 (full); the map says 6 open: 6 ÷ 10 a week × 5 = 3 queue days, 1 + 3 + 7 = 11.
+    const prepared = prepareRoutingLabs([lab({ id: 'cin', openCases: 40 }), lab({ id: 'day', location: places.dayton, openCases: 40 })]);
+    expect(routeCase(clickingDrive, prepared, { asOf }).ranked).toEqual([]);
+    const { ranked, excluded } = routeCase(clickingDrive, prepared, { asOf, openCases: new Map([['cin', 6]]) });
+    expect(excluded).toEqual([]);
+    expect(ranked.map((r) => [r.labId, r.queueDays, r.estimatedDays])).toEqual([
+      ['day', 0, 8], // 65 mi: 1 day + 0 queue + 7
+      ['cin', 3, 11],
+    ]);
+    expect(ranked[1].reasons).toContain('Queue: 6 open cases at 10 a week: 3 business days.');
+    const full = routeCase(clickingDrive, prepared, { asOf, openCases: new Map([['cin', 40]]) });
+    expect(full.excluded).toEqual([{ labId: 'cin', labName: 'Lab cin', reasons: [{ code: 'queue_full', message: 'Queue is full (40 open of 40).' }] }]);
+  });
+
+  it('a malformed count in the map makes that lab’s profile incomplete for this case only', () => {
+    const prepared = prepareRoutingLabs([lab({ id: 'cin' })]);
+    expect(routeCase(clickingDrive, prepared, { asOf, openCases: new Map([['cin', -1]]) }).excluded[0].reasons).toEqual([
+      { code: 'invalid_profile', message: 'Lab profile is incomplete: open cases must be a whole number ≥ 0, got -1.' },
+    ]);
+    expect(routeCase(clickingDrive, prepared, { asOf }).ranked).toHaveLength(1);
+  });
+});
+
+describe('geographiclib: the distance-only Inverse the prepared routing calls', () => {
+  // geographiclib computes s12 the same way whatever else is asked for; this pins that for the version in use.
+  const wgs84 = geographiclib.Geodesic.WGS84;
+  const lat = fc.double({ min: -90, max: 90, noNaN: true });
+  const lon = fc.double({ min: -180, max: 180, noNaN: true });
+  it('gives the same distance as the full solution, including equatorial, meridional and near-antipodal lines', () => {
+    const special: Array<[number, number, number, number]> = [
+      [0, 0, 0, 179.5], // equatorial
+      [-30, 20, 60, 20], // meridional
+      [0, 0, 0.5, 179.7], // near antipodal
+      [40, -100, -40, 80], // antipodal
+      [10, 10, 10, 10], // same point
+      [90, 0, -90, 0], // pole to pole
+    ];
+    const randomPairs = fc.sample(fc.tuple(lat, lon, lat, lon), { numRuns: 2000, seed: 42 });
+    for (const [lat1, lon1, lat2, lon2] of [...special, ...randomPairs]) {
+      expect(wgs84.Inverse(lat1, lon1, lat2, lon2, geographiclib.Geodesic.DISTANCE).s12).toBe(wgs84.Inverse(lat1, lon1, lat2, lon2).s12);
+    }
   });
 });

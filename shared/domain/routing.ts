@@ -1,10 +1,10 @@
+import geographiclib from 'geographiclib-geodesic';
 import { DateTime } from 'luxon';
 import {
   classifyCertificate,
   evaluateClass,
   MECHANICAL_WORK_MAX_ISO_CLASS,
   retestDueDate,
-  isCertificateCurrent,
   type IsoClass,
   type ParticleCountCertificate,
 } from './clean-air';
@@ -20,6 +20,9 @@ import { cleanAirSkills, labSkillLabels, labSkills, mediaTypeLabels, mediaTypes,
 //   transit (geodesic distance → distance zone → days) + queue (open cases ÷ weekly throughput × 5)
 //   + the lab's typical turnaround for the hardest required skill; ties by distance.
 // All three terms are business days, so a queue of one week's throughput counts as 5 days.
+// What does not depend on the case (profile checks, skill and media bitmasks, certificate verdicts) is worked
+// out once per lab set by prepareRoutingLabs, so routing a case against thousands of labs stays a few
+// milliseconds; the server keeps that index and passes fresh open-case counts per request.
 
 export const BUSINESS_DAYS_PER_WEEK = 5;
 
@@ -59,6 +62,11 @@ export interface RoutingOptions {
   shippingMode?: ShippingMode;
   /** Labs already offered this case (declined or expired); they are excluded with that reason. */
   previouslyOfferedLabIds?: readonly string[];
+  /**
+   * Current open cases by lab id, overriding each lab's `openCases` (a lab absent from the map has 0), so a
+   * cached prepared index can be routed with fresh counts.
+   */
+  openCases?: ReadonlyMap<string, number>;
 }
 
 export const exclusionCodes = [
@@ -134,231 +142,513 @@ function validateCase(kase: RoutingCase, options: RoutingOptions): void {
   }
 }
 
-// A certificate's class never changes, and labs share a handful of time zones: both are worked out
-// once, which keeps ranking thousands of labs within a few milliseconds.
-const classificationCache = new WeakMap<object, ReturnType<typeof classifyCertificate> | Error>();
-function classifyOnce(certificate: NonNullable<RoutingLab['cleanAirCertificate']>) {
-  let cached = classificationCache.get(certificate);
-  if (!cached) {
-    try {
-      cached = classifyCertificate(certificate);
-    } catch (error) {
-      cached = error as Error;
-    }
-    classificationCache.set(certificate, cached);
-  }
-  if (cached instanceof Error) throw cached;
-  return cached;
+// Distances stay geographiclib's (Karney), as in geo.ts; asking for the distance alone skips the azimuths.
+const wgs84 = geographiclib.Geodesic.WGS84;
+const DISTANCE_ONLY = geographiclib.Geodesic.DISTANCE;
+
+const SKILL_COUNT = labSkills.length;
+const mediaBit = new Map<unknown, number>(mediaTypes.map((m, i) => [m, 1 << i]));
+const CLEAN_AIR_NEEDED = `ISO class ${MECHANICAL_WORK_MAX_ISO_CLASS} or cleaner`;
+
+// Reasons that read the same for every lab and case. Frozen: results share them, so a caller that edited
+// one would otherwise change the next result too.
+const reason = (code: ExclusionCode, message: string): ExclusionReason => Object.freeze({ code, message });
+const INACTIVE = reason('inactive', 'Lab is not active on the network.');
+const PREVIOUSLY_OFFERED = reason('previously_offered', 'Lab was already offered this case.');
+const NO_HEALTH_AGREEMENT = reason('health_data_agreement', 'Case holds health records and the lab has not signed the health-data agreement.');
+const NO_THROUGHPUT = reason('no_throughput', 'Lab reports no weekly throughput, so its queue time cannot be estimated.');
+const NO_CERTIFICATE = reason('clean_air_missing', `No clean-air certificate on file; head swaps and platter work need ${CLEAN_AIR_NEEDED}.`);
+const MEDIA_REASONS = mediaTypes.map((m) => reason('media_type', `Lab does not take ${mediaTypeLabels[m]} media.`));
+
+// One bit per exclusion; a lab's bits select (and key the sharing of) its list of reasons, in this order.
+const R_INACTIVE = 1;
+const R_OFFERED = 2;
+const R_MEDIA = 4;
+const R_MISSING = 8;
+const R_HEALTH = 16;
+const R_QUEUE = 32;
+const R_THROUGHPUT = 64;
+const R_NO_CERTIFICATE = 128;
+const R_CERTIFICATE = 256; // unusable or not clean enough: the reason belongs to the certificate
+const R_EXPIRED = 512;
+/** Reasons whose message is the lab's own; a list holding one is made for that lab. */
+const R_OWN = R_QUEUE | R_CERTIFICATE | R_EXPIRED;
+const MISSING_SHIFT = 1024; // the missing-skill mask sits above the reason bits in a sharing key
+const R_INVALID = -1; // a malformed profile: the one reason, whatever else
+
+const CERT_MISSING = 0;
+const CERT_REJECTED = 1;
+const CERT_OK = 2;
+
+/** A certificate classified once. One shape for both kinds; isoClass, testedOn and currentUntil mean something when ok. */
+interface CertificateVerdict {
+  kind: typeof CERT_REJECTED | typeof CERT_OK;
+  /** Why it cannot be used (rejected), or the "due for re-test" reason for when it has run out (ok). */
+  reason: ExclusionReason;
+  isoClass: IsoClass;
+  testedOn: string;
+  currentUntil: string;
 }
 
+// Classifying a certificate is the costly part of preparing; labs re-prepared from the same objects
+// (callers passing plain arrays) reuse it. Certificates are treated as immutable.
+const verdictCache = new WeakMap<object, CertificateVerdict>();
 
-const failureTextCache = new WeakMap<object, string>();
-const classReasonCache = new WeakMap<object, ExclusionReason>();
-function classFailureText(certificate: NonNullable<RoutingLab['cleanAirCertificate']>): string {
-  let text = failureTextCache.get(certificate);
-  if (text === undefined) {
-    text = evaluateClass(certificate, MECHANICAL_WORK_MAX_ISO_CLASS).failures.map((f) => f.message).join(' ');
-    failureTextCache.set(certificate, text);
-  }
-  return text;
+function certificateVerdict(certificate: ParticleCountCertificate): CertificateVerdict {
+  let verdict = verdictCache.get(certificate);
+  if (!verdict) verdictCache.set(certificate, (verdict = judgeCertificate(certificate)));
+  return verdict;
 }
 
-class ZoneDays {
-  private readonly today = new Map<string, string | null>();
-  private readonly due = new Map<string, string>();
-  dueDate(testedOn: string, isoClass: IsoClass): string {
-    const key = `${testedOn}|${isoClass}`;
-    let value = this.due.get(key);
-    if (value === undefined) this.due.set(key, (value = retestDueDate(testedOn, isoClass)));
-    return value;
-  }
-  constructor(private readonly asOf: Date) {}
-  /** The calendar date in a time zone, or null when the zone is not a valid IANA zone. */
-  todayIn(timeZone: string): string | null {
-    let value = this.today.get(timeZone);
-    if (value === undefined) {
-      const local = DateTime.fromJSDate(this.asOf).setZone(timeZone);
-      value = local.isValid ? (local.toISODate() as string) : null;
-      this.today.set(timeZone, value);
-    }
-    return value;
-  }
+function rejected(message: string, code: ExclusionCode): CertificateVerdict {
+  return { kind: CERT_REJECTED, reason: reason(code, message), isoClass: MECHANICAL_WORK_MAX_ISO_CLASS, testedOn: '', currentUntil: '' };
 }
 
-function profileProblems(lab: RoutingLab, zones: ZoneDays, required: readonly LabSkill[]): string[] {
-  const problems: string[] = [];
-  const { lat, lon } = lab.location ?? ({} as LatLon);
-  if (!(typeof lat === 'number' && lat >= -90 && lat <= 90 && typeof lon === 'number' && lon >= -180 && lon <= 180)) {
-    problems.push(`location: latitude must be within ±90° and longitude within ±180°, got ${lat}, ${lon}`);
-  }
-  if (zones.todayIn(lab.timeZone) === null) problems.push(`time zone "${lab.timeZone}" is not an IANA time zone`);
-  if (!Number.isInteger(lab.openCases) || lab.openCases < 0) problems.push(`open cases must be a whole number ≥ 0, got ${lab.openCases}`);
-  if (!Number.isInteger(lab.queueCapacity) || lab.queueCapacity < 0) problems.push(`queue capacity must be a whole number ≥ 0, got ${lab.queueCapacity}`);
-  if (!Number.isFinite(lab.weeklyThroughput) || lab.weeklyThroughput < 0) problems.push(`weekly throughput must be a number ≥ 0, got ${lab.weeklyThroughput}`);
-  // Only the skills this case needs are read, so only they are checked (the profile form checks the rest).
-  for (const skill of required) {
-    const days = lab.turnaroundDays[skill];
-    if (days !== undefined && !(Number.isFinite(days) && days > 0)) problems.push(`turnaround for ${skill} must be a positive number of days, got ${days}`);
-  }
-  return problems;
-}
-
-function checkCleanAir(
-  lab: RoutingLab,
-  zones: ZoneDays,
-): { ok: true; isoClass: IsoClass; testedOn: string; currentUntil: string } | { ok: false; reason: ExclusionReason } {
-  const certificate = lab.cleanAirCertificate;
-  const needed = `ISO class ${MECHANICAL_WORK_MAX_ISO_CLASS} or cleaner`;
-  if (!certificate) {
-    return { ok: false, reason: { code: 'clean_air_missing', message: `No clean-air certificate on file; head swaps and platter work need ${needed}.` } };
-  }
+function judgeCertificate(certificate: ParticleCountCertificate): CertificateVerdict {
   let classification;
   try {
-    classification = classifyOnce(certificate);
+    classification = classifyCertificate(certificate);
   } catch (error) {
-    return { ok: false, reason: { code: 'clean_air_unusable', message: `The clean-air certificate cannot be read: ${(error as Error).message}.` } };
+    return rejected(`The clean-air certificate cannot be read: ${(error as Error).message}.`, 'clean_air_unusable');
   }
   if (classification.problems.length > 0) {
-    return { ok: false, reason: { code: 'clean_air_unusable', message: `The clean-air certificate of ${certificate.testedOn} is unusable: ${classification.problems.join(' ')}` } };
+    return rejected(`The clean-air certificate of ${certificate.testedOn} is unusable: ${classification.problems.join(' ')}`, 'clean_air_unusable');
   }
   const { isoClass } = classification;
   if (isoClass === null || isoClass > MECHANICAL_WORK_MAX_ISO_CLASS) {
     const measured = isoClass === null ? 'demonstrates no ISO class' : `measures ISO class ${isoClass}`;
-    let reason = classReasonCache.get(certificate);
-    if (!reason) {
-      reason = { code: 'clean_air_class', message: `The clean-air certificate of ${certificate.testedOn} ${measured}; head swaps and platter work need ${needed}. ${classFailureText(certificate)}`.trim() };
-      classReasonCache.set(certificate, reason);
+    const failures = evaluateClass(certificate, MECHANICAL_WORK_MAX_ISO_CLASS).failures.map((f) => f.message).join(' ');
+    return rejected(
+      `The clean-air certificate of ${certificate.testedOn} ${measured}; head swaps and platter work need ${CLEAN_AIR_NEEDED}. ${failures}`.trim(),
+      'clean_air_class',
+    );
+  }
+  const currentUntil = retestDueDate(certificate.testedOn, isoClass);
+  return {
+    kind: CERT_OK,
+    reason: reason(
+      'clean_air_expired',
+      `The clean-air certificate of ${certificate.testedOn} (ISO class ${isoClass}) was due for re-test by ${currentUntil} (ISO 14644-2 interval).`,
+    ),
+    isoClass,
+    testedOn: certificate.testedOn,
+    currentUntil,
+  };
+}
+
+/** The wording of a malformed profile's problems, kept for the labs that have any. */
+interface ProfileProblemText {
+  location?: string;
+  openCases?: string;
+  queueCapacity?: string;
+  weeklyThroughput?: string;
+  /** By skill index. */
+  turnaround: (string | undefined)[];
+}
+
+/**
+ * Labs packed for routing: everything about a lab that does not depend on the case, worked out once, in
+ * typed arrays indexed by the lab's position in the input. Build with prepareRoutingLabs; rebuild when a
+ * lab's profile changes (open-case counts can instead come fresh with each call, see RoutingOptions).
+ */
+class PreparedRoutingLabs {
+  /** Number of labs. */
+  readonly size: number;
+  readonly ids: string[];
+  readonly names: string[];
+  readonly lat: Float64Array;
+  readonly lon: Float64Array;
+  /** Index into timeZones; labs share few zones, so "today" is read once per zone and case. */
+  readonly zoneOf: Uint32Array;
+  readonly timeZones: string[] = [];
+  readonly active: Uint8Array;
+  readonly healthDataAgreement: Uint8Array;
+  readonly mediaMask: Uint32Array;
+  /** Bit s set when the lab offers labSkills[s]. */
+  readonly skillMask: Uint32Array;
+  /** Skills whose turnaround is present but not a positive number: a profile problem when the case needs one. */
+  readonly badTurnaroundMask: Uint32Array;
+  /** Turnaround days, lab-major: [lab × SKILL_COUNT + skill]. */
+  readonly turnaroundDays: Float64Array;
+  readonly openCases: Float64Array;
+  readonly openCasesInvalid: Uint8Array;
+  readonly queueCapacity: Float64Array;
+  readonly weeklyThroughput: Float64Array;
+  /** Location, queue capacity or weekly throughput is malformed. */
+  readonly profileInvalid: Uint8Array;
+  readonly problemText: (ProfileProblemText | undefined)[];
+  readonly certificateKind: Uint8Array;
+  readonly certificate: (CertificateVerdict | null)[];
+
+  constructor(labs: readonly RoutingLab[]) {
+    const n = labs.length;
+    this.size = n;
+    this.ids = new Array<string>(n);
+    this.names = new Array<string>(n);
+    this.lat = new Float64Array(n);
+    this.lon = new Float64Array(n);
+    this.zoneOf = new Uint32Array(n);
+    this.active = new Uint8Array(n);
+    this.healthDataAgreement = new Uint8Array(n);
+    this.mediaMask = new Uint32Array(n);
+    this.skillMask = new Uint32Array(n);
+    this.badTurnaroundMask = new Uint32Array(n);
+    this.turnaroundDays = new Float64Array(n * SKILL_COUNT);
+    this.openCases = new Float64Array(n);
+    this.openCasesInvalid = new Uint8Array(n);
+    this.queueCapacity = new Float64Array(n);
+    this.weeklyThroughput = new Float64Array(n);
+    this.profileInvalid = new Uint8Array(n);
+    this.problemText = new Array<ProfileProblemText | undefined>(n).fill(undefined);
+    this.certificateKind = new Uint8Array(n);
+    this.certificate = new Array<CertificateVerdict | null>(n).fill(null);
+    const zoneIndex = new Map<string, number>();
+
+    for (let i = 0; i < n; i++) {
+      const lab = labs[i];
+      this.ids[i] = lab.id;
+      this.names[i] = lab.name;
+      let zone = zoneIndex.get(lab.timeZone);
+      if (zone === undefined) {
+        zone = this.timeZones.length;
+        this.timeZones.push(lab.timeZone);
+        zoneIndex.set(lab.timeZone, zone);
+      }
+      this.zoneOf[i] = zone;
+
+      let text: ProfileProblemText | undefined;
+      const { lat, lon } = lab.location ?? ({} as LatLon);
+      if (!(typeof lat === 'number' && lat >= -90 && lat <= 90 && typeof lon === 'number' && lon >= -180 && lon <= 180)) {
+        text ??= { turnaround: [] };
+        text.location = `location: latitude must be within ±90° and longitude within ±180°, got ${lat}, ${lon}`;
+        this.profileInvalid[i] = 1;
+      } else {
+        this.lat[i] = lat;
+        this.lon[i] = lon;
+      }
+      if (!Number.isInteger(lab.openCases) || lab.openCases < 0) {
+        text ??= { turnaround: [] };
+        text.openCases = `open cases must be a whole number ≥ 0, got ${lab.openCases}`;
+        this.openCasesInvalid[i] = 1;
+      }
+      if (!Number.isInteger(lab.queueCapacity) || lab.queueCapacity < 0) {
+        text ??= { turnaround: [] };
+        text.queueCapacity = `queue capacity must be a whole number ≥ 0, got ${lab.queueCapacity}`;
+        this.profileInvalid[i] = 1;
+      }
+      if (!Number.isFinite(lab.weeklyThroughput) || lab.weeklyThroughput < 0) {
+        text ??= { turnaround: [] };
+        text.weeklyThroughput = `weekly throughput must be a number ≥ 0, got ${lab.weeklyThroughput}`;
+        this.profileInvalid[i] = 1;
+      }
+      this.openCases[i] = lab.openCases;
+      this.queueCapacity[i] = lab.queueCapacity;
+      this.weeklyThroughput[i] = lab.weeklyThroughput;
+
+      let skills = 0;
+      let bad = 0;
+      const base = i * SKILL_COUNT;
+      for (let s = 0; s < SKILL_COUNT; s++) {
+        const days = lab.turnaroundDays[labSkills[s]];
+        if (days === undefined) continue;
+        skills |= 1 << s;
+        this.turnaroundDays[base + s] = days;
+        if (!(Number.isFinite(days) && days > 0)) {
+          bad |= 1 << s;
+          text ??= { turnaround: [] };
+          text.turnaround[s] = `turnaround for ${labSkills[s]} must be a positive number of days, got ${days}`;
+        }
+      }
+      this.skillMask[i] = skills;
+      this.badTurnaroundMask[i] = bad;
+      this.problemText[i] = text;
+
+      let media = 0;
+      for (const m of lab.mediaTypes) media |= mediaBit.get(m) ?? 0;
+      this.mediaMask[i] = media;
+      this.active[i] = lab.active ? 1 : 0;
+      this.healthDataAgreement[i] = lab.healthDataAgreement ? 1 : 0;
+
+      if (lab.cleanAirCertificate) {
+        const verdict = certificateVerdict(lab.cleanAirCertificate);
+        this.certificateKind[i] = verdict.kind;
+        this.certificate[i] = verdict;
+      } else {
+        this.certificateKind[i] = CERT_MISSING;
+      }
     }
-    return { ok: false, reason };
   }
-  const today = zones.todayIn(lab.timeZone) as string;
-  const currentUntil = zones.dueDate(certificate.testedOn, isoClass);
-  // ISO calendar dates compare as strings; equivalent to isCertificateCurrent without re-parsing per lab.
-  if (!(certificate.testedOn <= today && today <= currentUntil)) {
-    const message =
-      certificate.testedOn > today
-        ? `The clean-air certificate is dated ${certificate.testedOn}, after today (${today}).`
-        : `The clean-air certificate of ${certificate.testedOn} (ISO class ${isoClass}) was due for re-test by ${currentUntil} (ISO 14644-2 interval).`;
-    return { ok: false, reason: { code: 'clean_air_expired', message } };
+}
+export type { PreparedRoutingLabs };
+
+/** Packs labs for routing, once; route any number of cases against the result. Pure. */
+export function prepareRoutingLabs(labs: readonly RoutingLab[]): PreparedRoutingLabs {
+  return new PreparedRoutingLabs(labs);
+}
+
+function invalidProfileReason(
+  index: PreparedRoutingLabs,
+  i: number,
+  today: string | null,
+  counts: ReadonlyMap<string, number> | undefined,
+  openCases: number,
+  requiredIdx: readonly number[],
+): ExclusionReason {
+  const text = index.problemText[i];
+  const problems: string[] = [];
+  if (text?.location) problems.push(text.location);
+  if (today === null) problems.push(`time zone "${index.timeZones[index.zoneOf[i]]}" is not an IANA time zone`);
+  if (counts === undefined) {
+    if (text?.openCases) problems.push(text.openCases);
+  } else if (!Number.isInteger(openCases) || openCases < 0) {
+    problems.push(`open cases must be a whole number ≥ 0, got ${openCases}`);
   }
-  return { ok: true, isoClass, testedOn: certificate.testedOn, currentUntil };
+  if (text?.queueCapacity) problems.push(text.queueCapacity);
+  if (text?.weeklyThroughput) problems.push(text.weeklyThroughput);
+  for (const s of requiredIdx) {
+    const problem = text?.turnaround[s];
+    if (problem) problems.push(problem);
+  }
+  return { code: 'invalid_profile', message: `Lab profile is incomplete: ${problems.join('; ')}.` };
+}
+
+/** A lab's reasons in the fixed order; `own` is the certificate's or the expiry reason, `queue` the queue's. */
+function reasonList(
+  codes: number,
+  media: ExclusionReason,
+  missing: ExclusionReason | undefined,
+  queue: ExclusionReason | undefined,
+  own: ExclusionReason | undefined,
+): ExclusionReason[] {
+  const reasons: ExclusionReason[] = [];
+  if (codes & R_INACTIVE) reasons.push(INACTIVE);
+  if (codes & R_OFFERED) reasons.push(PREVIOUSLY_OFFERED);
+  if (codes & R_MEDIA) reasons.push(media);
+  if (codes & R_MISSING) reasons.push(missing as ExclusionReason);
+  if (codes & R_HEALTH) reasons.push(NO_HEALTH_AGREEMENT);
+  if (codes & R_QUEUE) reasons.push(queue as ExclusionReason);
+  if (codes & R_THROUGHPUT) reasons.push(NO_THROUGHPUT);
+  if (codes & R_NO_CERTIFICATE) reasons.push(NO_CERTIFICATE);
+  if (codes & (R_CERTIFICATE | R_EXPIRED)) reasons.push(own as ExclusionReason);
+  return reasons;
+}
+
+function missingSkillsReason(missing: number): ExclusionReason {
+  const labels: string[] = [];
+  for (let s = 0; s < SKILL_COUNT; s++) if (missing & (1 << s)) labels.push(labSkillLabels[labSkills[s]]);
+  return { code: 'missing_skills', message: `Lab lacks ${labels.join(', ')}.` };
+}
+
+// Ranked labs are sorted before their rank is known; the estimate's tenths order them, then distance.
+function compareRanked(a: RankedLab, b: RankedLab): number {
+  return (
+    Math.round(a.estimatedDays * 10) - Math.round(b.estimatedDays * 10) ||
+    a.distanceKm - b.distanceKm ||
+    a.labName.localeCompare(b.labName) ||
+    a.labId.localeCompare(b.labId)
+  );
 }
 
 /**
  * Ranks the labs that may take a case and explains every exclusion. Pure: the same input gives the same
  * order. Bad case input throws RangeError; a lab with a malformed profile is excluded, not fatal.
+ * Takes the labs as they are (prepared on the way) or prepared once with prepareRoutingLabs. Excluded labs
+ * with the same reasons share one reasons array, and reason objects are shared: read them, do not edit them.
  */
-export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[], options: RoutingOptions): RoutingResult {
+export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[] | PreparedRoutingLabs, options: RoutingOptions): RoutingResult {
   validateCase(kase, options);
-  const required = labSkills.filter((s) => kase.requirements.requiredSkills.includes(s));
-  const previouslyOffered = new Set(options.previouslyOfferedLabIds ?? []);
+  const index = labs instanceof PreparedRoutingLabs ? labs : prepareRoutingLabs(labs);
+  const requiredIdx: number[] = [];
+  let required = 0;
+  let mechanical = 0;
+  for (let s = 0; s < SKILL_COUNT; s++) {
+    if (!kase.requirements.requiredSkills.includes(labSkills[s])) continue;
+    requiredIdx.push(s);
+    required |= 1 << s;
+    if (cleanAirSkills.includes(labSkills[s])) mechanical |= 1 << s;
+  }
+  const offered = options.previouslyOfferedLabIds?.length ? new Set(options.previouslyOfferedLabIds) : null;
   const batteryHazard = kase.requirements.batteryHazard === true;
   const mode: ShippingMode = batteryHazard ? 'ground' : (options.shippingMode ?? 'ground');
-  const mechanicalSkills = required.filter((s) => cleanAirSkills.includes(s));
-  const needsCleanAir = kase.requirements.needsCleanAir || mechanicalSkills.length > 0;
+  const transitWords = `${mode} transit${batteryHazard && options.shippingMode === 'air' ? ' (ground only: battery hazard)' : ''}.`;
+  const needsCleanAir = kase.requirements.needsCleanAir || mechanical !== 0;
+  const needsHealth = kase.requirements.needsHealthDataAgreement;
+  const mediaBitOfCase = mediaBit.get(kase.mediaType) as number;
+  const mediaReason = MEDIA_REASONS[mediaTypes.indexOf(kase.mediaType)];
+  const counts = options.openCases;
+  const shopLat = kase.shopLocation.lat;
+  const shopLon = kase.shopLocation.lon;
 
-  const excluded: ExcludedLab[] = [];
-  const candidates: Array<Omit<RankedLab, 'rank'> & { sortKey: number }> = [];
+  const now = DateTime.fromJSDate(options.asOf);
+  const todayByZone: (string | null)[] = index.timeZones.map((zone) => {
+    const local = now.setZone(zone);
+    return local.isValid ? (local.toISODate() as string) : null;
+  });
 
-  const zones = new ZoneDays(options.asOf);
-  const inactiveReason: ExclusionReason = { code: 'inactive', message: 'Lab is not active on the network.' };
-  const previouslyOfferedReason: ExclusionReason = { code: 'previously_offered', message: 'Lab was already offered this case.' };
-  const mediaReason: ExclusionReason = { code: 'media_type', message: `Lab does not take ${mediaTypeLabels[kase.mediaType]} media.` };
-  const healthReason: ExclusionReason = { code: 'health_data_agreement', message: 'Case holds health records and the lab has not signed the health-data agreement.' };
-  const throughputReason: ExclusionReason = { code: 'no_throughput', message: 'Lab reports no weekly throughput, so its queue time cannot be estimated.' };
-  const missingReasons = new Map<string, ExclusionReason>();
-  for (const lab of labs) {
-    const problems = profileProblems(lab, zones, required);
-    if (problems.length > 0) {
-      excluded.push({ labId: lab.id, labName: lab.name, reasons: [{ code: 'invalid_profile', message: `Lab profile is incomplete: ${problems.join('; ')}.` }] });
+  const { ids, names, zoneOf, active, healthDataAgreement, mediaMask, skillMask, badTurnaroundMask, turnaroundDays } = index;
+  const { openCases, openCasesInvalid, queueCapacity, weeklyThroughput, profileInvalid, certificateKind, certificate } = index;
+  const n = index.size;
+  // Three passes, so that the geodesic calls (which make much short-lived garbage) run before the
+  // exclusion list exists: a collection during them has less live data to move.
+  // 1. Each lab's reason bits (0: a candidate).
+  const verdicts = new Int32Array(n);
+  const open = counts === undefined ? openCases : new Float64Array(n);
+  const invalidReasons: ExclusionReason[] = [];
+  const candidateLabs: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const today = todayByZone[zoneOf[i]];
+    let given = 0;
+    let openInvalid: boolean;
+    if (counts === undefined) openInvalid = openCasesInvalid[i] === 1;
+    else {
+      given = counts.get(ids[i]) ?? 0;
+      openInvalid = !(Number.isInteger(given) && given >= 0);
+      open[i] = given;
+    }
+    if (profileInvalid[i] === 1 || today === null || openInvalid || (badTurnaroundMask[i] & required) !== 0) {
+      invalidReasons.push(invalidProfileReason(index, i, today, counts, given, requiredIdx));
+      verdicts[i] = R_INVALID;
       continue;
     }
-    // Reasons are built from strings made once per case; most labs are excluded, so this loop stays lean.
-    // (No closure per lab: the TypeScript runner wraps every function it creates, which is slow in a hot loop.)
-    let reasons: ExclusionReason[] | null = null;
-    if (!lab.active) (reasons ??= []).push(inactiveReason);
-    if (previouslyOffered.has(lab.id)) (reasons ??= []).push(previouslyOfferedReason);
-    if (!lab.mediaTypes.includes(kase.mediaType)) (reasons ??= []).push(mediaReason);
-    let missingKey = '';
-    for (const s of required) if (lab.turnaroundDays[s] === undefined) missingKey += missingKey ? `,${s}` : s;
-    if (missingKey) {
-      let reason = missingReasons.get(missingKey);
-      if (!reason) {
-        reason = { code: 'missing_skills', message: `Lab lacks ${missingKey.split(',').map((k) => labSkillLabels[k as LabSkill]).join(', ')}.` };
-        missingReasons.set(missingKey, reason);
-      }
-      (reasons ??= []).push(reason);
-    }
-    if (kase.requirements.needsHealthDataAgreement && !lab.healthDataAgreement) (reasons ??= []).push(healthReason);
-    if (lab.openCases >= lab.queueCapacity) {
-      (reasons ??= []).push({ code: 'queue_full', message: `Queue is full (${lab.openCases} open of ${lab.queueCapacity}).` });
-    }
-    if (lab.weeklyThroughput === 0) (reasons ??= []).push(throughputReason);
-    let cleanAir: RankedLab['cleanAir'];
+
+    const skills = skillMask[i];
+    let codes = 0;
+    if (active[i] === 0) codes |= R_INACTIVE;
+    if (offered !== null && offered.has(ids[i])) codes |= R_OFFERED;
+    if ((mediaMask[i] & mediaBitOfCase) === 0) codes |= R_MEDIA;
+    if ((required & ~skills) !== 0) codes |= R_MISSING;
+    if (needsHealth && healthDataAgreement[i] === 0) codes |= R_HEALTH;
+    if (open[i] >= queueCapacity[i]) codes |= R_QUEUE;
+    if (weeklyThroughput[i] === 0) codes |= R_THROUGHPUT;
     // Only check clean air when the lab offers the mechanical work at all; otherwise the missing skill says it.
-    let offersMechanical = true;
-    for (const s of mechanicalSkills) if (lab.turnaroundDays[s] === undefined) offersMechanical = false;
-    if (needsCleanAir && offersMechanical) {
-      const check = checkCleanAir(lab, zones);
-      if (check.ok) cleanAir = { isoClass: check.isoClass, testedOn: check.testedOn, currentUntil: check.currentUntil };
-      else (reasons ??= []).push(check.reason);
+    if (needsCleanAir && (skills & mechanical) === mechanical) {
+      const kind = certificateKind[i];
+      if (kind === CERT_MISSING) codes |= R_NO_CERTIFICATE;
+      else if (kind === CERT_REJECTED) codes |= R_CERTIFICATE;
+      else {
+        const verdict = certificate[i] as CertificateVerdict;
+        // ISO calendar dates compare as strings.
+        if (!(verdict.testedOn <= today && today <= verdict.currentUntil)) codes |= R_EXPIRED;
+      }
     }
-    if (reasons) {
-      excluded.push({ labId: lab.id, labName: lab.name, reasons });
-      continue;
-    }
+    verdicts[i] = codes;
+    if (codes === 0) candidateLabs.push(i);
+  }
 
-    const distanceKm = geodesicDistanceKm(kase.shopLocation, lab.location);
+  // 2. The candidates, with their estimates and explanations (written for candidates only: most labs are
+  // excluded). The rank is set once they are sorted.
+  const ranked: RankedLab[] = new Array<RankedLab>(candidateLabs.length);
+  for (let k = 0; k < candidateLabs.length; k++) {
+    const i = candidateLabs[k];
+    const distanceKm = (wgs84.Inverse(shopLat, shopLon, index.lat[i], index.lon[i], DISTANCE_ONLY).s12 ?? 0) / 1000;
     const distanceMiles = kmToMiles(distanceKm);
     const zone = distanceZone(distanceMiles);
     const transitDays = transitDaysForZone(zone, mode);
-    const queueRaw = (lab.openCases / lab.weeklyThroughput) * BUSINESS_DAYS_PER_WEEK;
+    const openCount = open[i];
+    const queueRaw = (openCount / weeklyThroughput[i]) * BUSINESS_DAYS_PER_WEEK;
     // The slowest required step bounds the case; "hardest" is the skill with the lab's longest turnaround,
     // the first in vocabulary order on a tie.
-    let hardestSkill = required[0]!;
-    for (const s of required) if ((lab.turnaroundDays[s] as number) > (lab.turnaroundDays[hardestSkill] as number)) hardestSkill = s;
-    const turnaroundDays = lab.turnaroundDays[hardestSkill] as number;
-    const estimatedDays = round1(transitDays + queueRaw + turnaroundDays);
+    const base = i * SKILL_COUNT;
+    let hardest = requiredIdx[0];
+    for (const s of requiredIdx) if (turnaroundDays[base + s] > turnaroundDays[base + hardest]) hardest = s;
+    const turnaround = turnaroundDays[base + hardest];
+    const hardestSkill = labSkills[hardest];
+    const estimatedDays = round1(transitDays + queueRaw + turnaround);
     const queueDays = round1(queueRaw);
-
-    const explanation = [
-      `${Math.round(distanceMiles)} mi from the shop (zone ${zone}): ${plural(transitDays, 'business day')} ${mode} transit${batteryHazard && options.shippingMode === 'air' ? ' (ground only: battery hazard)' : ''}.`,
-      `Queue: ${plural(lab.openCases, 'open case')} at ${lab.weeklyThroughput} a week: ${queueDays} business days.`,
-      required.length > 1
-        ? `Turnaround for ${labSkillLabels[hardestSkill]}, the slowest required skill here: ${plural(turnaroundDays, 'business day')}.`
-        : `Turnaround for ${labSkillLabels[hardestSkill]}: ${plural(turnaroundDays, 'business day')}.`,
+    const reasons = [
+      `About ${estimatedDays} business days until the customer has data.`,
+      `${Math.round(distanceMiles)} mi from the shop (zone ${zone}): ${plural(transitDays, 'business day')} ${transitWords}`,
+      `Queue: ${plural(openCount, 'open case')} at ${weeklyThroughput[i]} a week: ${queueDays} business days.`,
+      requiredIdx.length > 1
+        ? `Turnaround for ${labSkillLabels[hardestSkill]}, the slowest required skill here: ${plural(turnaround, 'business day')}.`
+        : `Turnaround for ${labSkillLabels[hardestSkill]}: ${plural(turnaround, 'business day')}.`,
     ];
-    if (cleanAir) {
-      explanation.push(`Clean air ISO class ${cleanAir.isoClass}, tested ${cleanAir.testedOn}, current until ${cleanAir.currentUntil}.`);
-    }
-    if (kase.requirements.needsHealthDataAgreement) explanation.push('Has signed the health-data agreement.');
-    explanation.unshift(`About ${estimatedDays} business days until the customer has data.`);
-
-    candidates.push({
-      labId: lab.id,
-      labName: lab.name,
-      estimatedDays,
-      distanceKm,
-      distanceMiles,
-      zone,
-      shippingMode: mode,
-      transitDays,
-      queueDays,
-      hardestSkill,
-      turnaroundDays,
-      ...(cleanAir ? { cleanAir } : {}),
-      reasons: explanation,
-      sortKey: Math.round(estimatedDays * 10),
-    });
+    const v = needsCleanAir ? certificate[i] : null;
+    if (v) reasons.push(`Clean air ISO class ${v.isoClass}, tested ${v.testedOn}, current until ${v.currentUntil}.`);
+    if (needsHealth) reasons.push('Has signed the health-data agreement.');
+    // Written out twice rather than spread: object spread costs more than the rest of this loop.
+    ranked[k] = v
+      ? {
+          rank: 0,
+          labId: ids[i],
+          labName: names[i],
+          estimatedDays,
+          distanceKm,
+          distanceMiles,
+          zone,
+          shippingMode: mode,
+          transitDays,
+          queueDays,
+          hardestSkill,
+          turnaroundDays: turnaround,
+          cleanAir: { isoClass: v.isoClass, testedOn: v.testedOn, currentUntil: v.currentUntil },
+          reasons,
+        }
+      : {
+          rank: 0,
+          labId: ids[i],
+          labName: names[i],
+          estimatedDays,
+          distanceKm,
+          distanceMiles,
+          zone,
+          shippingMode: mode,
+          transitDays,
+          queueDays,
+          hardestSkill,
+          turnaroundDays: turnaround,
+          reasons,
+        };
   }
 
-  candidates.sort(
-    (a, b) => a.sortKey - b.sortKey || a.distanceKm - b.distanceKm || a.labName.localeCompare(b.labName) || a.labId.localeCompare(b.labId),
-  );
-  const ranked: RankedLab[] = candidates.map(({ sortKey, ...lab }, index) => {
-    const tied = index > 0 && candidates[index - 1].sortKey === sortKey;
-    const reasons = tied ? [...lab.reasons, 'Same estimate as the lab ranked above; ties go to the nearer lab.'] : lab.reasons;
-    return { rank: index + 1, ...lab, reasons };
-  });
+  // 3. The exclusions, in input order. Labs with the same reasons share one list unless a message is the lab's own.
+  const excluded: ExcludedLab[] = new Array<ExcludedLab>(n - candidateLabs.length);
+  let e = 0;
+  const sharedLists = new Map<number, ExclusionReason[]>();
+  const missingReasons = new Map<number, ExclusionReason>();
+  let nextInvalid = 0;
+  for (let i = 0; i < n; i++) {
+    const codes = verdicts[i];
+    if (codes === 0) continue;
+    if (codes === R_INVALID) {
+      excluded[e++] = { labId: ids[i], labName: names[i], reasons: [invalidReasons[nextInvalid++]] };
+      continue;
+    }
+    const missing = required & ~skillMask[i];
+    let missingReason: ExclusionReason | undefined;
+    if (missing !== 0) {
+      missingReason = missingReasons.get(missing);
+      if (!missingReason) missingReasons.set(missing, (missingReason = missingSkillsReason(missing)));
+    }
+    let reasons: ExclusionReason[] | undefined;
+    if ((codes & R_OWN) === 0) {
+      const key = codes + missing * MISSING_SHIFT;
+      reasons = sharedLists.get(key);
+      if (!reasons) sharedLists.set(key, (reasons = reasonList(codes, mediaReason, missingReason, undefined, undefined)));
+    } else {
+      const queue = codes & R_QUEUE ? ({ code: 'queue_full', message: `Queue is full (${open[i]} open of ${queueCapacity[i]}).` } as const) : undefined;
+      let own: ExclusionReason | undefined;
+      if (codes & R_CERTIFICATE) own = (certificate[i] as CertificateVerdict).reason;
+      else if (codes & R_EXPIRED) {
+        const verdict = certificate[i] as CertificateVerdict;
+        const today = todayByZone[zoneOf[i]] as string;
+        own =
+          verdict.testedOn > today
+            ? { code: 'clean_air_expired', message: `The clean-air certificate is dated ${verdict.testedOn}, after today (${today}).` }
+            : verdict.reason;
+      }
+      reasons = reasonList(codes, mediaReason, missingReason, queue, own);
+    }
+    excluded[e++] = { labId: ids[i], labName: names[i], reasons };
+  }
+
+  // Stable, and the labs are in input order, so equal labs keep that order.
+  ranked.sort(compareRanked);
+  for (let k = 0; k < ranked.length; k++) {
+    ranked[k].rank = k + 1;
+    if (k > 0 && Math.round(ranked[k - 1].estimatedDays * 10) === Math.round(ranked[k].estimatedDays * 10)) {
+      ranked[k].reasons.push('Same estimate as the lab ranked above; ties go to the nearer lab.');
+    }
+  }
   return { ranked, excluded };
 }
