@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 
-// Rows that nothing reads back inside the transaction that writes them — timeline steps, outbox
-// e-mail, partner events with their deliveries, job outbox rows — may be collected and written in one
+// Rows that nothing reads back inside the transaction that writes them — routing snapshots, timeline
+// steps, outbox e-mail, partner events with their deliveries, job outbox rows — may be collected and written in one
 // statement just before the transaction commits, instead of one round trip each. This is what keeps
 // intake (five timeline steps, several e-mails, a job) to a handful of statements. Collection happens
 // only inside `withBatchedAppends`; everywhere else each row is written at once, as before.
@@ -46,14 +46,26 @@ export interface JobRow {
   requestId: string | null;
 }
 
+/** A ranking as it stood (routing_snapshots); lab offers point at it. */
+export interface SnapshotRow {
+  id: string;
+  referralId: string;
+  trigger: string;
+  originLat: number;
+  originLon: number;
+  candidates: unknown[];
+  excluded: unknown[];
+}
+
 export class AppendBuffer {
+  readonly snapshots: SnapshotRow[] = [];
   readonly timeline: TimelineRow[] = [];
   readonly outbox: OutboxRow[] = [];
   readonly events: PartnerEventRow[] = [];
   readonly jobs: JobRow[] = [];
 
   get size(): number {
-    return this.timeline.length + this.outbox.length + this.events.length + this.jobs.length;
+    return this.snapshots.length + this.timeline.length + this.outbox.length + this.events.length + this.jobs.length;
   }
 }
 
@@ -92,6 +104,12 @@ const rows = (param: string, table: string) =>
 
 const FLUSH_SQL = `
   WITH
+  rs AS (
+    INSERT INTO routing_snapshots (id, referral_id, trigger, origin_lat, origin_lon, candidates, excluded)
+    SELECT r.id, r.referral_id, r.trigger, r.origin_lat, r.origin_lon, r.candidates, r.excluded
+    FROM ${rows('$5', 'routing_snapshots')} ORDER BY e.ord
+    RETURNING 1
+  ),
   tl AS (
     INSERT INTO referral_timeline (id, referral_id, at, kind, summary, actor_type, actor_id, actor_name, details)
     SELECT r.id, r.referral_id, r.at, r.kind, r.summary, r.actor_type, r.actor_id, r.actor_name, r.details
@@ -131,7 +149,7 @@ const FLUSH_SQL = `
     FROM ${rows('$4', 'job_outbox')} ORDER BY e.ord
     RETURNING 1
   )
-  SELECT (SELECT count(*) FROM tl)::int AS timeline, (SELECT count(*) FROM ob)::int AS outbox,
+  SELECT (SELECT count(*) FROM rs)::int AS snapshots, (SELECT count(*) FROM tl)::int AS timeline, (SELECT count(*) FROM ob)::int AS outbox,
          (SELECT count(*) FROM ev)::int AS events, (SELECT count(*) FROM dl)::int AS deliveries, (SELECT count(*) FROM jb)::int AS jobs`;
 
 async function flushAppends(manager: EntityManager, buffer: AppendBuffer): Promise<void> {
@@ -170,6 +188,17 @@ async function flushAppends(manager: EntityManager, buffer: AppendBuffer): Promi
         start_after: j.startAfter.toISOString(),
         singleton_key: j.singletonKey,
         request_id: j.requestId,
+      })),
+    ),
+    JSON.stringify(
+      buffer.snapshots.map((r) => ({
+        id: r.id,
+        referral_id: r.referralId,
+        trigger: r.trigger,
+        origin_lat: r.originLat,
+        origin_lon: r.originLon,
+        candidates: r.candidates,
+        excluded: r.excluded,
       })),
     ),
   ]);

@@ -34,6 +34,7 @@ import {
   resolvePostalCode,
   routeAndOffer,
   withdrawPendingOffer,
+  type DispatchOutcome,
   type TimelineActor,
 } from '../routing';
 import { toReferralDto, toSummaryDto, toTriageDto } from './dto';
@@ -141,6 +142,22 @@ function runTriage(input: Pick<ReferralInputParsed, 'device' | 'symptoms' | 'sen
   return { ...result, cautions: [...result.cautions, ...(battery?.cautions ?? [])], battery };
 }
 
+// Reference numbers come from the sequence a block at a time per server, so that most intakes need no
+// round trip for one. As with any sequence, numbers can be skipped (a server stops holding some); a
+// reference only has to be unique, and the database's unique index says it is.
+const REFERENCE_BLOCK = 25;
+const reservedNumbers = new WeakMap<object, string[]>();
+
+async function nextReferralNumber(manager: EntityManager): Promise<string> {
+  let pool = reservedNumbers.get(manager.connection);
+  if (!pool) reservedNumbers.set(manager.connection, (pool = []));
+  if (pool.length === 0) {
+    const rows: { n: string }[] = await manager.query(`SELECT n::text AS n FROM (SELECT nextval('referral_number_seq') AS n FROM generate_series(1, $1::int)) s ORDER BY s.n`, [REFERENCE_BLOCK]);
+    pool.push(...rows.map((r) => r.n));
+  }
+  return pool.shift()!;
+}
+
 async function shopFor(manager: EntityManager, partnerOrganizationId: string): Promise<Organization> {
   const shop = await manager.findOneBy(Organization, { id: partnerOrganizationId, kind: 'partner' });
   if (!shop || !shop.active) throw AppError.notFound('That shop');
@@ -155,13 +172,33 @@ export async function createReferral(
 ): Promise<ReferralDto> {
   const input = parseInput(referralInput, rawInput);
   // Intake writes five timeline steps, e-mails and partner events: collected and written in one statement.
-  const opened = { replayed: false };
-  const referralId = await ctx.db.transaction(
-    async (manager) =>
-      (await withBatchedAppends(manager, () => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened })))
-        .result,
+  const opened: OpenedReferral = { replayed: false };
+  const { result: referralId, appended } = await ctx.db.transaction((manager) =>
+    withBatchedAppends(manager, () => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened })),
   );
-  return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId, { justOpened: !opened.replayed });
+  if (opened.replayed || !opened.intake) return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId);
+  // Everything the answer shows was written just now, in this transaction: answer from it rather than
+  // reading it all back (a test checks the answer equals a later read).
+  const { referral, shopName, outcome } = opened.intake;
+  const offers = 'offer' in outcome ? [outcome.offer] : [];
+  const labName = 'labName' in outcome ? outcome.labName : null;
+  const timeline = appended.timeline.map((t) => Object.assign(new TimelineEntry(), { ...t, position: null }));
+  const dto = toReferralDto({
+    referral,
+    partnerName: shopName,
+    labName: referral.labOrganizationId ? labName : null,
+    snapshot: outcome.snapshot ?? null,
+    offers,
+    labNames: new Map(offers.map((o) => [o.labOrganizationId, labName ?? ''])),
+    timeline,
+  });
+  return { ...dto, photos: [], shipments: [], amounts: null };
+}
+
+/** What openReferral tells its caller: an earlier case answered again, or the case it just opened. */
+export interface OpenedReferral {
+  replayed: boolean;
+  intake?: { referral: Referral; shopName: string; outcome: DispatchOutcome };
 }
 
 /**
@@ -173,7 +210,7 @@ export async function openReferral(
   manager: EntityManager,
   who: { partnerOrganizationId: string; actor: ReferralActor },
   input: ReferralInputParsed,
-  options: { idempotencyKey?: string; now: Date; /** Set to true when an earlier case is answered. */ opened?: { replayed: boolean } },
+  options: { idempotencyKey?: string; now: Date; opened?: OpenedReferral },
 ): Promise<string> {
   const key = options.idempotencyKey ?? null;
   const hash = key ? createHash('sha256').update(stableJson(input)).digest('hex') : null;
@@ -193,7 +230,7 @@ export async function openReferral(
   const shop = await shopFor(manager, who.partnerOrganizationId);
   const origin = resolveOrigin(input.origin, shop);
   const triaged = runTriage(input);
-  const [{ n }]: { n: string }[] = await manager.query(`SELECT nextval('referral_number_seq')::text AS n`);
+  const n = await nextReferralNumber(manager);
   const battery: StoredBattery | null = input.battery
     ? {
         installed: input.battery.installed,
@@ -274,7 +311,8 @@ export async function openReferral(
   });
   referral.partnerOrganization = shop;
   // A case opened just now has no offers yet.
-  await routeAndOffer(ctx, manager, referral, { trigger: 'intake', now, previouslyOfferedLabIds: [] });
+  const outcome = await routeAndOffer(ctx, manager, referral, { trigger: 'intake', now, previouslyOfferedLabIds: [] });
+  if (options.opened) options.opened.intake = { referral, shopName: shop.name, outcome };
   return referral.id;
 }
 
@@ -325,11 +363,8 @@ async function amountsOf(manager: EntityManager, referralId: string): Promise<Re
   };
 }
 
-/**
- * One case as its shop or lab sees it. `justOpened` is for the answer to intake: a case opened in this
- * request has no photos, labels or quote yet, so those are not looked up.
- */
-export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string, options: { justOpened?: boolean } = {}): Promise<ReferralDto> {
+/** One case as its shop or lab sees it. */
+export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id: string): Promise<ReferralDto> {
   if (!UUID.test(id)) throw AppError.notFound('That case');
   const manager = ctx.db.manager;
   // Scoped in the query itself: another shop's case is simply not found. (find, not findOne: with
@@ -341,9 +376,9 @@ export async function getReferral(ctx: ServiceContext, scope: ReferralScope, id:
   if (!referral) throw AppError.notFound('That case');
   const [parts, photos, shipments, amounts] = await Promise.all([
     loadParts(manager, referral),
-    options.justOpened ? [] : listReferralPhotos(manager, referral.id),
-    options.justOpened ? [] : shipmentsOf(manager, referral.id),
-    options.justOpened ? null : amountsOf(manager, referral.id),
+    listReferralPhotos(manager, referral.id),
+    shipmentsOf(manager, referral.id),
+    amountsOf(manager, referral.id),
   ]);
   const dto = toReferralDto({
     referral,

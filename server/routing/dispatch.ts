@@ -4,6 +4,7 @@ import { geodesicDistanceKm } from '@shared/domain/geo';
 import { declineReasonLabels, type DeclineOfferInput } from '@shared/schemas/referrals';
 import type { AutoAcceptRule } from '@shared/schemas/labs';
 import type { LabSkill } from '@shared/vocabulary';
+import { appendBufferOf, newRowId } from '../db/appends';
 import { enqueueJob, queues } from '../jobs';
 import { AppError } from '../lib/errors';
 import type { ServiceContext } from '../lib/context';
@@ -19,10 +20,14 @@ import { autoAcceptActor, deadlineActor, recordTimeline, routingActor, type Time
 // and when an offer is declined or runs out, offer to the next. Every function here runs inside the
 // caller's transaction with the case row locked, and writes its timeline, e-mails and jobs there too.
 
-export type DispatchOutcome =
-  | { outcome: 'offered'; offer: LabOffer }
-  | { outcome: 'accepted'; offer: LabOffer }
-  | { outcome: 'needs_attention'; reason: string };
+export type DispatchOutcome = (
+  | { outcome: 'offered'; offer: LabOffer; labName: string }
+  | { outcome: 'accepted'; offer: LabOffer; labName: string }
+  | { outcome: 'needs_attention'; reason: string }
+) & {
+  /** The ranking the decision was made on, when this step ranked the labs. */
+  snapshot?: RoutingSnapshot;
+};
 
 /** Locks the case row: every change to a case's offers goes through this lock, in this order (case, then offer). */
 export async function lockReferral(manager: EntityManager, referralId: string): Promise<Referral | null> {
@@ -48,6 +53,12 @@ async function partnerName(manager: EntityManager, referral: Referral): Promise<
 }
 
 async function saveSnapshot(manager: EntityManager, referral: Referral, ranking: Ranking, trigger: RoutingTrigger): Promise<RoutingSnapshot> {
+  const buffer = appendBufferOf(manager);
+  if (buffer) {
+    const row = { id: newRowId(), referralId: referral.id, trigger, originLat: referral.originLat, originLon: referral.originLon, candidates: ranking.candidates, excluded: ranking.excluded };
+    buffer.snapshots.push(row);
+    return Object.assign(new RoutingSnapshot(), row);
+  }
   return manager.save(
     manager.create(RoutingSnapshot, {
       referralId: referral.id,
@@ -87,7 +98,13 @@ export async function acceptInTransaction(
     respondedByName: how.actor.name,
     autoAccepted: auto,
   });
-  Object.assign(offer, { status: 'accepted', respondedAt: how.now, respondedByName: how.actor.name, autoAccepted: auto });
+  Object.assign(offer, {
+    status: 'accepted',
+    respondedAt: how.now,
+    respondedByUserId: how.actor.type === 'user' ? (how.actor.id ?? null) : null,
+    respondedByName: how.actor.name,
+    autoAccepted: auto,
+  });
   await manager.update(Referral, referral.id, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
   Object.assign(referral, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
   await recordTimeline(manager, referral, {
@@ -138,6 +155,12 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
       estimatedDays: terms.estimatedDays,
       offeredAt: terms.now,
       deadline,
+      respondedAt: null,
+      respondedByUserId: null,
+      respondedByName: null,
+      autoAccepted: false,
+      declineReason: null,
+      declineNote: null,
       assignedByUserId: terms.assignedByUserId ?? null,
     }),
   );
@@ -152,7 +175,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
   const rule = matchingAutoAcceptRule(lab.autoAcceptRules, referral.triage.requiredSkills, terms.distanceKm);
   if (rule) {
     await acceptInTransaction(ctx, manager, referral, offer, lab, { actor: autoAcceptActor, rule, now: terms.now });
-    return { outcome: 'accepted', offer };
+    return { outcome: 'accepted', offer, labName: lab.name };
   }
 
   await manager.update(Referral, referral.id, { status: 'offered', attentionReason: null });
@@ -172,7 +195,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
       url: offersUrl(ctx),
     });
   }
-  return { outcome: 'offered', offer };
+  return { outcome: 'offered', offer, labName: lab.name };
 }
 
 async function markNeedsAttention(ctx: ServiceContext, manager: EntityManager, referral: Referral, reason: string, now: Date): Promise<DispatchOutcome> {
@@ -214,9 +237,9 @@ export async function routeAndOffer(
     at: options.now,
     details: { snapshotId: snapshot.id, trigger: options.trigger, candidates: n, excluded: ranking.excluded.length },
   });
-  if (n === 0) return markNeedsAttention(ctx, manager, referral, noCandidateReason(ranking.excluded), options.now);
+  if (n === 0) return { ...(await markNeedsAttention(ctx, manager, referral, noCandidateReason(ranking.excluded), options.now)), snapshot };
   const top = ranking.candidates[0];
-  return makeOffer(ctx, manager, referral, ranking.labs.get(top.labId)!, {
+  const offered = await makeOffer(ctx, manager, referral, ranking.labs.get(top.labId)!, {
     snapshotId: snapshot.id,
     rank: 1,
     distanceKm: top.distanceKm,
@@ -224,6 +247,7 @@ export async function routeAndOffer(
     actor: routingActor,
     now: options.now,
   });
+  return { ...offered, snapshot };
 }
 
 /** Withdraws the case's pending offer, if there is one, and tells the lab. */

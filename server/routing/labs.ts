@@ -92,6 +92,7 @@ interface LabRow {
   cert_iso_class: number | null;
   cert_valid_until: string | null;
   open_cases: number;
+  directory_version: string | null;
 }
 
 const LAB_SQL = `
@@ -101,7 +102,8 @@ const LAB_SQL = `
          p.accepting_new_cases, p.auto_accept_rules, p.updated_at AS profile_updated_at,
          c.id AS cert_id, c.tested_on::text AS cert_tested_on, c.area_name AS cert_area_name, c.area_m2 AS cert_area_m2,
          c.samples AS cert_samples, c.iso_class AS cert_iso_class, c.valid_until::text AS cert_valid_until,
-         (SELECT count(*)::int FROM referrals r WHERE r.lab_organization_id = o.id AND r.status = ANY($1::text[])) AS open_cases
+         (SELECT count(*)::int FROM referrals r WHERE r.lab_organization_id = o.id AND r.status = ANY($1::text[])) AS open_cases,
+         (SELECT version::text FROM lab_directory_version) AS directory_version
   FROM organizations o
   LEFT JOIN lab_profiles p ON p.organization_id = o.id
   LEFT JOIN LATERAL (
@@ -152,6 +154,11 @@ function toLoadedLab(row: LabRow): LoadedLab {
 
 /** Every lab organisation (or one), ordered by name. */
 export async function loadLabs(manager: EntityManager, filter: { labId?: string } = {}): Promise<LoadedLab[]> {
+  return (await loadLabsWithVersion(manager, filter)).labs;
+}
+
+/** The labs with the directory version they were read at (same statement, so the two agree). */
+export async function loadLabsWithVersion(manager: EntityManager, filter: { labId?: string } = {}): Promise<{ labs: LoadedLab[]; version: string | null }> {
   const params: unknown[] = [LAB_OPEN_STATUSES];
   let sql = LAB_SQL;
   if (filter.labId) {
@@ -159,7 +166,7 @@ export async function loadLabs(manager: EntityManager, filter: { labId?: string 
     sql += ` AND o.id = $2`;
   }
   const rows: LabRow[] = await manager.query(`${sql} ORDER BY o.name, o.id`, params);
-  return rows.map(toLoadedLab);
+  return { labs: rows.map(toLoadedLab), version: rows[0]?.directory_version ?? null };
 }
 
 export function todayIn(timeZone: string, at: Date = new Date()): string {

@@ -4,7 +4,8 @@ import { routeCase, type RankedLab } from '@shared/domain/routing';
 import type { TriageResult } from '@shared/domain/triage';
 import type { CandidateDto, ExcludedDto } from '@shared/schemas/referrals';
 import type { MediaType } from '@shared/vocabulary';
-import { loadLabs, toRoutingLab, type LoadedLab } from './labs';
+import { readLabDirectory } from './directory';
+import type { LoadedLab } from './labs';
 
 // Ranks the network's labs for one case with the pure routing module, adding the labs it cannot read
 // (no profile yet, no location) as exclusions with their own reasons.
@@ -27,20 +28,8 @@ export async function rankLabs(
   kase: CaseForRouting,
   options: { asOf: Date; previouslyOfferedLabIds?: readonly string[] },
 ): Promise<Ranking> {
-  const labs = await loadLabs(manager);
-  const byId = new Map(labs.map((l) => [l.id, l]));
-  const preExcluded: ExcludedDto[] = [];
-  const routable: (LoadedLab & { location: LatLon })[] = [];
-  for (const lab of labs) {
-    if (!lab.configured) {
-      preExcluded.push({ labId: lab.id, labName: lab.name, location: lab.location, reasons: [{ code: 'not_configured', message: 'Lab has not completed its profile yet.' }] });
-    } else if (!lab.location) {
-      preExcluded.push({ labId: lab.id, labName: lab.name, location: null, reasons: [{ code: 'invalid_profile', message: 'Lab has no location on file.' }] });
-    } else {
-      routable.push(lab as LoadedLab & { location: LatLon });
-    }
-  }
-
+  const { directory, openCases } = await readLabDirectory(manager);
+  const byId = directory.byId;
   const result = routeCase(
     {
       mediaType: kase.mediaType,
@@ -52,8 +41,8 @@ export async function rankLabs(
         batteryHazard: kase.triage.batteryHazard,
       },
     },
-    routable.map(toRoutingLab),
-    { asOf: options.asOf, previouslyOfferedLabIds: options.previouslyOfferedLabIds },
+    directory.prepared,
+    { asOf: options.asOf, previouslyOfferedLabIds: options.previouslyOfferedLabIds, openCases },
   );
 
   const candidates: CandidateDto[] = result.ranked.map((r) => ({
@@ -79,7 +68,7 @@ export async function rankLabs(
       );
       return { labId: e.labId, labName: e.labName, location: lab.location, reasons };
     }),
-    ...preExcluded,
+    ...directory.unroutable,
   ].sort((a, b) => a.labName.localeCompare(b.labName) || a.labId.localeCompare(b.labId));
   return { candidates, excluded, ranked: result.ranked, labs: byId };
 }

@@ -1,9 +1,14 @@
+import { randomUUID } from 'node:crypto';
+import pg from 'pg';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
+import { loadConfig } from '../../server/config';
 import { appendBufferOf, withBatchedAppends } from '../../server/db/appends';
+import { createDataSource, runMigrations } from '../../server/db/data-source';
+import { createReferral, getReferral } from '../../server/referrals';
 import { enqueueEmail } from '../../server/notifications';
 import { recordTimeline } from '../../server/routing/timeline';
-import { setupApi, signIn } from '../support/api';
+import { setupApi, signIn, unique } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
 // Intake collects its timeline steps, e-mails, partner events and jobs and writes them in one
@@ -129,5 +134,51 @@ describe('withBatchedAppends', () => {
       expect(await timelineCount(manager, kase.id)).toBe(before + 1);
     });
     await expect(withBatchedAppends(db.manager, async () => undefined)).rejects.toThrow(/needs a transaction/);
+  });
+});
+
+describe('the answer to intake, for each way routing can end', () => {
+  it('matches a later read when the case is offered, and when a lab’s rule accepts it at once', async () => {
+    const { key } = await shop([]);
+    const cases = [
+      body,
+      { ...body, device: { mediaType: 'usb_flash', capacityGb: 64 }, symptoms: ['deleted_files'] },
+    ];
+    const statuses = new Set<string>();
+    for (const sent of cases) {
+      const created = await request(app).post('/api/v1/referrals').set('Authorization', key).send(sent);
+      expect(created.status).toBe(201);
+      statuses.add(created.body.status);
+      const read = await request(app).get(`/api/v1/referrals/${created.body.id}`).set('Authorization', key);
+      expect(created.body).toEqual(read.body);
+    }
+    expect([...statuses].sort()).toEqual(['accepted', 'offered']);
+  });
+});
+
+describe('the answer to intake on a network without labs', () => {
+  it('matches a later read when the case waits for the network admin', async () => {
+    // A database of its own with no labs at all, so that routing finds no candidate.
+    const adminUrl = process.env.TEST_PG_ADMIN_URL!;
+    const name = unique('nolabs_');
+    const admin = new pg.Client({ connectionString: adminUrl });
+    await admin.connect();
+    await admin.query(`CREATE DATABASE ${name}`);
+    const empty = createDataSource({ url: adminUrl.replace(/\/postgres$/, `/${name}`), poolSize: 2 });
+    await empty.initialize();
+    try {
+      await runMigrations(empty);
+      const org = await createOrganization(empty, 'partner');
+      await empty.query(`UPDATE organizations SET postal_code = '59801', lat = 46.87, lon = -113.99 WHERE id = $1`, [org.id]);
+      const ctx = { db: empty, config: loadConfig({ NODE_ENV: 'test', DATABASE_URL: 'postgres://unused/none', APP_URL: 'http://app.test' }) };
+      const who = { partnerOrganizationId: org.id, actor: { type: 'user' as const, id: randomUUID(), name: 'Counter clerk' } };
+      const created = await createReferral(ctx, who, { ...body, origin: { postalCode: '59801', country: 'US' }, consent: { accepted: true } });
+      expect(created.status).toBe('needs_attention');
+      expect(created).toEqual(await getReferral(ctx, { partnerOrganizationId: org.id }, created.id));
+    } finally {
+      await empty.destroy();
+      await admin.query(`DROP DATABASE ${name}`);
+      await admin.end();
+    }
   });
 });

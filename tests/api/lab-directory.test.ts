@@ -1,0 +1,63 @@
+import { describe, expect, it } from 'vitest';
+import { readLabDirectory } from '../../server/routing/directory';
+import { setupApi } from '../support/api';
+
+// Routing holds the labs in memory and follows the database through lab_directory_version.
+const { db } = await setupApi();
+
+async function someLab(): Promise<{ id: string; weekly: number }> {
+  const [row] = await db.query(`SELECT organization_id AS id, weekly_throughput AS weekly FROM lab_profiles ORDER BY organization_id LIMIT 1`);
+  return row;
+}
+
+describe('the lab directory routing reads', () => {
+  it('is read once and kept while nothing about the labs changes', async () => {
+    const first = await readLabDirectory(db.manager);
+    const second = await readLabDirectory(db.manager);
+    expect(second.directory).toBe(first.directory);
+  });
+
+  it('is read again after a lab profile changes, and shows the change', async () => {
+    const lab = await someLab();
+    const before = await readLabDirectory(db.manager);
+    // Inside a transaction that is then undone, so that files running beside this one never see it.
+    await db
+      .transaction(async (manager) => {
+        await manager.query(`UPDATE lab_profiles SET weekly_throughput = $2 WHERE organization_id = $1`, [lab.id, lab.weekly + 1]);
+        const after = await readLabDirectory(manager);
+        expect(after.directory).not.toBe(before.directory);
+        expect(after.directory.byId.get(lab.id)?.weeklyThroughput).toBe(lab.weekly + 1);
+        throw new Error('undo');
+      })
+      .catch((e: Error) => expect(e.message).toBe('undo'));
+  });
+
+  it('does not keep a change that was rolled back', async () => {
+    const lab = await someLab();
+    await expect(
+      db.transaction(async (manager) => {
+        await manager.query(`UPDATE lab_profiles SET weekly_throughput = 999 WHERE organization_id = $1`, [lab.id]);
+        expect((await readLabDirectory(manager)).directory.byId.get(lab.id)?.weeklyThroughput).toBe(999);
+        throw new Error('roll back');
+      }),
+    ).rejects.toThrow('roll back');
+    expect((await readLabDirectory(db.manager)).directory.byId.get(lab.id)?.weeklyThroughput).toBe(lab.weekly);
+  });
+
+  it('counts each lab’s open cases afresh on every reading, without reading the labs again', async () => {
+    const [held] = await db.query(
+      `SELECT id, lab_organization_id AS lab, status FROM referrals WHERE lab_organization_id IS NOT NULL AND status = 'accepted' LIMIT 1`,
+    );
+    expect(held).toBeDefined();
+    const before = await readLabDirectory(db.manager);
+    await db
+      .transaction(async (manager) => {
+        await manager.query(`UPDATE referrals SET status = 'closed' WHERE id = $1`, [held.id]);
+        const after = await readLabDirectory(manager);
+        expect(after.directory).toBe(before.directory);
+        expect(after.openCases.get(held.lab) ?? 0).toBe((before.openCases.get(held.lab) ?? 0) - 1);
+        throw new Error('undo');
+      })
+      .catch((e: Error) => expect(e.message).toBe('undo'));
+  });
+});
