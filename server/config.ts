@@ -29,6 +29,8 @@ const configSchema = z
     STATIC_DIR: z.string().default('dist'),
     UPLOAD_DIR: z.string().default('.data/uploads'),
     RUN_WORKERS: bool.default(true),
+    // App processes on this machine (node:cluster); one per core uses the machine fully.
+    WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
     JSON_BODY_LIMIT: z.string().default('256kb'),
     // Seconds to wait after each failed webhook delivery; about 24 hours in all (the window).
     WEBHOOK_RETRY_SCHEDULE_SECONDS: z
@@ -112,6 +114,7 @@ const configSchema = z
       staticDir: env.STATIC_DIR,
       uploadDir: env.UPLOAD_DIR,
       runWorkers: env.RUN_WORKERS,
+      webConcurrency: env.WEB_CONCURRENCY,
       jsonBodyLimit: env.JSON_BODY_LIMIT,
       webhooks: { retryScheduleSeconds: env.WEBHOOK_RETRY_SCHEDULE_SECONDS, disableAfterMs: env.WEBHOOK_DISABLE_AFTER_HOURS * 3_600_000 },
       offerResponseBusinessHours: env.OFFER_RESPONSE_BUSINESS_HOURS,

@@ -1,3 +1,4 @@
+import cluster from 'node:cluster';
 import type { Server } from 'node:http';
 import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
@@ -33,8 +34,43 @@ async function main() {
   process.on('unhandledRejection', (err) => reportError(err, { source: 'unhandledRejection' }));
 }
 
-main().catch((err) => {
-  if (err instanceof ConfigError) console.error(err.message);
-  else logger.fatal({ err }, 'server failed to start');
-  process.exit(1);
-});
+/**
+ * With WEB_CONCURRENCY above 1, this process only watches over that many app processes, which share the
+ * port (node:cluster). Background workers run in the first of them only; the others serve requests.
+ */
+function supervise(count: number, runWorkers: boolean) {
+  let stopping = false;
+  const fork = (index: number) => {
+    const child = cluster.fork({ RUN_WORKERS: String(runWorkers && index === 0), WEB_CONCURRENCY: '1' });
+    child.on('exit', (code, signal) => {
+      if (stopping) return;
+      logger.error({ index, code, signal }, 'app process exited; starting another');
+      setTimeout(() => fork(index), 1000);
+    });
+  };
+  for (let i = 0; i < count; i++) fork(i);
+  const stop = (signal: NodeJS.Signals) => {
+    stopping = true;
+    for (const child of Object.values(cluster.workers ?? {})) child?.process.kill(signal);
+    cluster.disconnect(() => process.exit(0));
+  };
+  process.once('SIGTERM', () => stop('SIGTERM'));
+  process.once('SIGINT', () => stop('SIGINT'));
+}
+
+function start() {
+  if (cluster.isPrimary) {
+    const config = loadConfig();
+    setLogLevel(config.logLevel);
+    if (config.webConcurrency > 1) return supervise(config.webConcurrency, config.runWorkers);
+  }
+  return main();
+}
+
+Promise.resolve()
+  .then(start)
+  .catch((err) => {
+    if (err instanceof ConfigError) console.error(err.message);
+    else logger.fatal({ err }, 'server failed to start');
+    process.exit(1);
+  });
