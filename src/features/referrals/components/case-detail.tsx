@@ -42,6 +42,23 @@ function deviceName(device: ReferralDto['device']): string {
   return makeModel ? `${mediaTypeLabels[device.mediaType]} · ${makeModel}` : mediaTypeLabels[device.mediaType];
 }
 
+// What the shop does next (or that nothing is needed) once a lab holds the case, by where it stands.
+const labStageText: Partial<Record<ReferralDto['status'], string>> = {
+  accepted: 'The lab has taken the case. Next: buy the shipping label and pack the device by the packing rules.',
+  label_issued: 'The label is ready. Next: pack the device by the packing rules and hand the box to the carrier.',
+  in_transit: 'The box is on its way to the lab; the shipment below shows where it is. Nothing is needed from you now.',
+  received: 'The lab has the device and will evaluate it, then send the customer a quote.',
+  evaluating: 'The lab is evaluating the device; the customer receives the quote by e-mail.',
+  quote_sent: 'The customer has the quote and decides on it through their own link.',
+  quote_declined: 'The customer declined the quote; the lab sends the device back.',
+  approved: 'The customer approved the quote; the lab is recovering the data.',
+  paid: 'The customer has paid; the lab is recovering the data.',
+  recovering: 'The lab is recovering the data.',
+  ready_for_review: 'The recovered files are ready for the customer to check.',
+  returned: 'The device and the data are on their way back.',
+  on_hold: 'The lab has put the case on hold; the timeline says why.',
+};
+
 function WhereItStands({ referral }: { referral: ReferralDto }) {
   const { offer, lab, status } = referral;
   if (status === 'cancelled') return <Alert title="This case was cancelled">No lab will work on it. The timeline says when and by whom.</Alert>;
@@ -53,9 +70,11 @@ function WhereItStands({ referral }: { referral: ReferralDto }) {
     );
   }
   if (lab) {
+    const next = labStageText[status];
+    if (!next) return null;
     return (
-      <Alert tone="success" title={`Accepted by ${lab.name}`}>
-        The lab has taken the case. Next: print the shipping label and pack the device by the packing rules.
+      <Alert tone={status === 'accepted' ? 'success' : 'info'} title={status === 'accepted' ? `Accepted by ${lab.name}` : `With ${lab.name}`}>
+        {next}
       </Alert>
     );
   }
