@@ -30,6 +30,9 @@ const configSchema = z
     UPLOAD_DIR: z.string().default('.data/uploads'),
     RUN_WORKERS: bool.default(true),
     // App processes on this machine (node:cluster); one per core uses the machine fully.
+    // The customer's link pages, per client address: requests a minute, and unknown links per 15 minutes.
+    CUSTOMER_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(120),
+    CUSTOMER_FAILED_LOOKUPS_PER_15_MINUTES: z.coerce.number().int().min(1).default(30),
     WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
     JSON_BODY_LIMIT: z.string().default('256kb'),
     // Seconds to wait after each failed webhook delivery; about 24 hours in all (the window).
@@ -115,6 +118,7 @@ const configSchema = z
       uploadDir: env.UPLOAD_DIR,
       runWorkers: env.RUN_WORKERS,
       webConcurrency: env.WEB_CONCURRENCY,
+      customerRateLimit: { perMinute: env.CUSTOMER_RATE_LIMIT_PER_MINUTE, failedLookupsPer15Minutes: env.CUSTOMER_FAILED_LOOKUPS_PER_15_MINUTES },
       jsonBodyLimit: env.JSON_BODY_LIMIT,
       webhooks: { retryScheduleSeconds: env.WEBHOOK_RETRY_SCHEDULE_SECONDS, disableAfterMs: env.WEBHOOK_DISABLE_AFTER_HOURS * 3_600_000 },
       offerResponseBusinessHours: env.OFFER_RESPONSE_BUSINESS_HOURS,

@@ -1,4 +1,5 @@
 import { Router, type Request, type RequestHandler } from 'express';
+import { rateLimit } from 'express-rate-limit';
 import type { EntityManager } from 'typeorm';
 import multer from 'multer';
 import { z } from 'zod';
@@ -133,6 +134,24 @@ function customerRequest(req: Request): CustomerRequest {
 /** The customer's page: no account, the link's token in the Authorization header, never in a URL. */
 export function customerRoutes(ctx: ServiceContext): Router {
   const router = Router();
+  // A link is 256 random bits, so guessing is hopeless; these limits keep anyone from trying at volume
+  // (and from loading the case page in a loop). Counted per client address, in this process.
+  const limited = (limit: number, windowMs: number, message: string, skipSuccessfulRequests = false) =>
+    rateLimit({
+      windowMs,
+      limit,
+      skipSuccessfulRequests,
+      standardHeaders: 'draft-7',
+      legacyHeaders: false,
+      handler: (_req, _res, next) =>
+        next(new AppError('rate_limited', 429, message, undefined, { headers: { 'Retry-After': String(Math.ceil(windowMs / 1000)) } })),
+    });
+  const { perMinute, failedLookupsPer15Minutes } = ctx.config.customerRateLimit;
+  router.use(
+    '/customer',
+    limited(perMinute, 60_000, `More than ${perMinute} requests a minute from here. Wait a minute and try again.`),
+    limited(failedLookupsPer15Minutes, 15 * 60_000, 'Too many links that do not open a case from here. Wait 15 minutes and try again.', true),
+  );
   router.use((_req, res, next) => {
     // Nothing the customer sees is kept by browsers or proxies.
     res.setHeader('Cache-Control', 'no-store');
