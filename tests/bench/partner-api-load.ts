@@ -62,22 +62,6 @@ export async function benchPartnerApiLoad(): Promise<void> {
       const s = bare.listen(0, '127.0.0.1', () => r(s));
     });
 
-    const port = await freePort();
-    // Workers off: the figure is the request path (intake, triage, routing, offer, all in one transaction).
-    server = spawn(process.execPath, [tsx, 'server/index.ts'], {
-      env: { ...env, PORT: String(port), RUN_WORKERS: 'false', PARTNER_API_RATE_LIMIT_PER_MINUTE: '1000000', DATABASE_POOL_SIZE: '20' },
-      stdio: ['ignore', 'inherit', 'inherit'],
-    });
-    for (let i = 0; ; i++) {
-      try {
-        if ((await fetch(`http://127.0.0.1:${port}/api/health`)).ok) break;
-      } catch {
-        // not up yet
-      }
-      if (i > 300) throw new Error('the server did not start');
-      await new Promise((r) => setTimeout(r, 200));
-    }
-
     const body = JSON.stringify({
       customer: { name: 'Load Test Customer', email: 'load@customer.test' },
       device: { mediaType: 'usb_flash', capacityGb: 64 },
@@ -86,13 +70,44 @@ export async function benchPartnerApiLoad(): Promise<void> {
       sensitivity: [],
     });
     const headers = { authorization: `Bearer ${demoApiKeyValues['juniper-lane']}`, 'content-type': 'application/json' };
-    await run(`http://127.0.0.1:${port}/api/v1/referrals`, { method: 'POST', headers, body, duration: 2, connections: 10 }); // warm-up
-    const api = await run(`http://127.0.0.1:${port}/api/v1/referrals`, { method: 'POST', headers, body });
+
+    // The server as one process, then with one app process per core (WEB_CONCURRENCY), as README's
+    // "Scaling out" runs it on one machine.
+    const results: [string, autocannon.Result][] = [];
+    for (const processes of [1, Math.max(2, os.availableParallelism())]) {
+      const port = await freePort();
+      // Workers off: the figure is the request path (intake, triage, routing, offer, all in one transaction).
+      server = spawn(process.execPath, [tsx, 'server/index.ts'], {
+        env: {
+          ...env,
+          PORT: String(port),
+          RUN_WORKERS: 'false',
+          WEB_CONCURRENCY: String(processes),
+          PARTNER_API_RATE_LIMIT_PER_MINUTE: '1000000',
+          DATABASE_POOL_SIZE: String(Math.ceil(20 / processes)),
+        },
+        stdio: ['ignore', 'inherit', 'inherit'],
+      });
+      for (let i = 0; ; i++) {
+        try {
+          if ((await fetch(`http://127.0.0.1:${port}/api/health`)).ok) break;
+        } catch {
+          // not up yet
+        }
+        if (i > 300) throw new Error('the server did not start');
+        await new Promise((r) => setTimeout(r, 200));
+      }
+      await run(`http://127.0.0.1:${port}/api/v1/referrals`, { method: 'POST', headers, body, duration: 2, connections: 10 }); // warm-up
+      results.push([`  POST /api/v1/referrals, ${processes === 1 ? 'one app process' : `${processes} app processes (WEB_CONCURRENCY)`}`, await run(`http://127.0.0.1:${port}/api/v1/referrals`, { method: 'POST', headers, body })]);
+      server.kill('SIGTERM');
+      await new Promise((r) => server!.once('exit', r));
+      server = undefined;
+    }
     const { port: barePort } = bareServer.address() as { port: number };
     const yard = await run(`http://127.0.0.1:${barePort}/insert`, { method: 'POST', headers: { 'content-type': 'application/json' }, body });
     bareServer.close();
     console.log('partner API load: 50 connections for 10 s (autocannon), target ≥ 300 requests/s with p99 ≤ 150 ms');
-    line('  POST /api/v1/referrals', api);
+    for (const [label, result] of results) line(label, result);
     line('  yardstick: bare Express route with one INSERT', yard);
   } finally {
     server?.kill('SIGTERM');
