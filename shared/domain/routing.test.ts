@@ -14,6 +14,7 @@ import {
 import { geodesicDistanceKm, kmToMiles, type LatLon } from './geo';
 import {
   BUSINESS_DAYS_PER_WEEK,
+  geodesicDistanceBoundsKm,
   prepareRoutingLabs,
   routeCase,
   type ExcludedLab,
@@ -25,7 +26,7 @@ import {
   type RoutingResult,
 } from './routing';
 import { triage } from './triage';
-import { distanceZone, transitDaysForZone, type ShippingMode } from './zones';
+import { distanceZone, transitDaysForZone, zoneUpperMiles, type ShippingMode } from './zones';
 
 // Places are real city centres; labs and their figures are invented test data.
 // Distances come from geographiclib (checked in geo.test.ts); zones and transit days from zones.ts
@@ -325,7 +326,8 @@ describe('routeCase: properties over random labs', () => {
 
 // ---------------------------------------------------------------------------------------------------------
 // routeCase as it stood at commit 6d0d984 (one pass over plain lab objects), kept verbatim as the oracle:
-// the packed lab index must give exactly the same ranking, reasons and exclusions.
+// the packed lab index must give exactly the same ranking, reasons and exclusions. (Only its declared result
+// type changed: it predates candidateCount, which the comparison checks against its ranked list.)
 // ---------------------------------------------------------------------------------------------------------
 
 const round1 = (value: number) => Math.round(value * 10) / 10;
@@ -459,7 +461,7 @@ function checkCleanAir(
   return { ok: true, isoClass, testedOn: certificate.testedOn, currentUntil };
 }
 
-function referenceRouteCase(kase: RoutingCase, labs: readonly RoutingLab[], options: RoutingOptions): RoutingResult {
+function referenceRouteCase(kase: RoutingCase, labs: readonly RoutingLab[], options: RoutingOptions): Omit<RoutingResult, 'candidateCount'> {
   validateCase(kase, options);
   const required = labSkills.filter((s) => kase.requirements.requiredSkills.includes(s));
   const previouslyOffered = new Set(options.previouslyOfferedLabIds ?? []);
@@ -703,11 +705,23 @@ const randomOptions: fc.Arbitrary<RoutingOptions> = fc.record(
   { requiredKeys: ['asOf'] },
 );
 
-// Same values, same key order (what the API serialises), same absent-versus-undefined fields.
-function expectSameResult(actual: RoutingResult, expected: RoutingResult) {
-  expect(actual).toStrictEqual(expected);
-  expect(JSON.stringify(actual)).toBe(JSON.stringify(expected));
+// Same values, same key order (what the API serialises), same absent-versus-undefined fields. A result from the
+// frozen reference has no candidateCount: every lab it ranks is a candidate, so it is its ranked list's length.
+function expectSameResult(actual: RoutingResult, expected: RoutingResult | Omit<RoutingResult, 'candidateCount'>) {
+  const whole: RoutingResult = 'candidateCount' in expected ? expected : { ...expected, candidateCount: expected.ranked.length };
+  expect(actual).toStrictEqual(whole);
+  expect(JSON.stringify(actual)).toBe(JSON.stringify(whole));
 }
+
+const countsArb = fc
+  .array(
+    fc.tuple(
+      fc.constantFrom(...labIdPool),
+      fc.oneof({ weight: 8, arbitrary: fc.integer({ min: 0, max: 60 }) }, { weight: 1, arbitrary: fc.constantFrom(-1, 2.5, Number.NaN) }),
+    ),
+    { maxLength: 8 },
+  )
+  .map((entries) => new Map(entries));
 
 describe('routeCase matches its earlier implementation exactly', () => {
   it('over random labs, including malformed profiles, and random cases', () => {
@@ -718,16 +732,6 @@ describe('routeCase matches its earlier implementation exactly', () => {
       { numRuns: 400 },
     );
   });
-
-  const countsArb = fc
-    .array(
-      fc.tuple(
-        fc.constantFrom(...labIdPool),
-        fc.oneof({ weight: 8, arbitrary: fc.integer({ min: 0, max: 60 }) }, { weight: 1, arbitrary: fc.constantFrom(-1, 2.5, Number.NaN) }),
-      ),
-      { maxLength: 8 },
-    )
-    .map((entries) => new Map(entries));
 
   it('with the labs prepared once and several cases routed against them, with and without fresh open-case counts', () => {
     fc.assert(
@@ -800,6 +804,158 @@ describe('geographiclib: the distance-only Inverse the prepared routing calls', 
     const randomPairs = fc.sample(fc.tuple(lat, lon, lat, lon), { numRuns: 2000, seed: 42 });
     for (const [lat1, lon1, lat2, lon2] of [...special, ...randomPairs]) {
       expect(wgs84.Inverse(lat1, lon1, lat2, lon2, geographiclib.Geodesic.DISTANCE).s12).toBe(wgs84.Inverse(lat1, lon1, lat2, lon2).s12);
+    }
+  });
+});
+
+describe('routeCase: options.limit keeps the first entries of the full ranking', () => {
+  it('worked example: the best two of three, the tie sentence kept, every exclusion still listed', () => {
+    const labs = [
+      lab({ id: 'cin', name: 'A Cincinnati lab' }), // 1 + 3 + 7 = 11
+      lab({ id: 'den', location: places.denver }), // 4 + 3 + 7 = 14
+      lab({ id: 'day', name: 'Z Dayton lab', location: places.dayton }), // 1 + 3 + 7 = 11, nearer
+      lab({ id: 'idle', weeklyThroughput: 0 }),
+    ];
+    const full = routeCase(clickingDrive, labs, { asOf });
+    const best = routeCase(clickingDrive, labs, { asOf, limit: 2 });
+    expect(best.ranked.map((r) => [r.rank, r.labId, r.estimatedDays])).toEqual([
+      [1, 'day', 11],
+      [2, 'cin', 11],
+    ]);
+    expect(best.ranked[1].reasons.at(-1)).toBe('Same estimate as the lab ranked above; ties go to the nearer lab.');
+    expect(best).toStrictEqual({ ranked: full.ranked.slice(0, 2), excluded: full.excluded, candidateCount: 3 });
+    expect(full.candidateCount).toBe(3);
+    expect(routeCase(clickingDrive, labs, { asOf, limit: 5 })).toStrictEqual(full);
+  });
+
+  it('a limit that is not a whole number ≥ 1 is a RangeError', () => {
+    for (const limit of [0, -1, 2.5, Number.NaN, Number.POSITIVE_INFINITY]) {
+      expect(() => routeCase(clickingDrive, [lab({ id: 'cin' })], { asOf, limit })).toThrow(/options.limit must be a whole number ≥ 1/);
+    }
+  });
+
+  // Labs placed by geographiclib's Direct problem a few hundredths of a mile to a couple of miles either side of a
+  // zone limit (zones.ts) from the shop, where the spherical bounds straddle two zones.
+  const wgs84 = geographiclib.Geodesic.WGS84;
+  const nearZoneLimit = fc.record({
+    upperMiles: fc.constantFrom(...zoneUpperMiles),
+    offsetMiles: fc.constantFrom(-2, -0.3, -0.01, 0, 0.01, 0.3, 2),
+    azimuth: fc.double({ min: -180, max: 180, noNaN: true }),
+  });
+  const placedLab = fc.tuple(
+    fc.oneof({ weight: 2, arbitrary: eligibleLab }, { weight: 1, arbitrary: randomLab }),
+    fc.option(nearZoneLimit, { nil: undefined, freq: 2 }),
+  );
+  function placeNearShop(kase: RoutingCase, placed: ReadonlyArray<[RoutingLab, { upperMiles: number; offsetMiles: number; azimuth: number } | undefined]>) {
+    return placed.map(([l, edge]) => {
+      if (!edge) return l;
+      const { lat2, lon2 } = wgs84.Direct(kase.shopLocation.lat, kase.shopLocation.lon, edge.azimuth, (edge.upperMiles + edge.offsetMiles) * 1609.344);
+      return { ...l, location: { lat: lat2 as number, lon: lon2 as number } };
+    });
+  }
+
+  it('over random labs (ties, zone limits, malformed profiles), cases, counts and limits: the full result cut to the limit', () => {
+    fc.assert(
+      fc.property(
+        fc.array(placedLab, { maxLength: 24 }),
+        randomCase,
+        randomOptions,
+        fc.option(countsArb, { nil: undefined }),
+        fc.nat({ max: 1000 }),
+        (placed, kase, options, counts, pick) => {
+          const labs = placeNearShop(kase, placed);
+          const limit = 1 + (pick % (labs.length + 2));
+          const prepared = prepareRoutingLabs(labs);
+          const withCounts = counts ? { ...options, openCases: counts } : options;
+          const full = routeCase(kase, prepared, withCounts);
+          // The full result against the frozen reference, given the counts the map stands for.
+          const asGiven = counts ? labs.map((l) => ({ ...l, openCases: counts.get(l.id) ?? 0 })) : labs;
+          expectSameResult(full, referenceRouteCase(kase, asGiven, options));
+          const expected = { ranked: full.ranked.slice(0, limit), excluded: full.excluded, candidateCount: full.ranked.length };
+          expectSameResult(routeCase(kase, prepared, { ...withCounts, limit }), expected);
+          expectSameResult(routeCase(kase, labs, { ...withCounts, limit }), expected);
+        },
+      ),
+      { numRuns: 400 },
+    );
+  });
+
+  it('over hundreds of candidates spread across the US, where most are left out before their exact distance', () => {
+    const usLab = eligibleLab.chain((l) =>
+      fc.record({
+        location: fc.oneof({ weight: 4, arbitrary: usPoint }, { weight: 1, arbitrary: fc.constantFrom(...Object.values(places)) }),
+        openCases: fc.integer({ min: 0, max: 30 }),
+        weeklyThroughput: fc.integer({ min: 5, max: 25 }),
+        turnaroundDays: fc.integer({ min: 2, max: 13 }).map((days) => Object.fromEntries(labSkills.map((s) => [s, days]))),
+      }).map((figures) => ({ ...l, ...figures })),
+    );
+    fc.assert(
+      fc.property(
+        fc.array(usLab, { minLength: 200, maxLength: 500 }),
+        fc.oneof(usPoint, fc.constantFrom(columbusShop, ...Object.values(places))),
+        fc.constantFrom<ShippingMode>('ground', 'air'),
+        fc.constantFrom(1, 2, 10, 25, 60, 199),
+        (labs, shopLocation, shippingMode, limit) => {
+          const kase: RoutingCase = { ...clickingDrive, shopLocation };
+          const prepared = prepareRoutingLabs(labs);
+          const full = routeCase(kase, prepared, { asOf, shippingMode });
+          expect(full.candidateCount).toBe(labs.length);
+          expectSameResult(routeCase(kase, prepared, { asOf, shippingMode, limit }), {
+            ranked: full.ranked.slice(0, limit),
+            excluded: full.excluded,
+            candidateCount: full.ranked.length,
+          });
+        },
+      ),
+      { numRuns: 40 },
+    );
+  });
+});
+
+describe('geodesicDistanceBoundsKm contains the WGS-84 geodesic distance (reference: geographiclib, Karney 2013)', () => {
+  const wgs84 = geographiclib.Geodesic.WGS84;
+  const lat = fc.double({ min: -90, max: 90, noNaN: true });
+  const lon = fc.double({ min: -180, max: 180, noNaN: true });
+  function check(lat1: number, lon1: number, lat2: number, lon2: number) {
+    const km = (wgs84.Inverse(lat1, lon1, lat2, lon2, geographiclib.Geodesic.DISTANCE).s12 as number) / 1000;
+    const { lowKm, highKm } = geodesicDistanceBoundsKm({ lat: lat1, lon: lon1 }, { lat: lat2, lon: lon2 });
+    expect(lowKm).toBeLessThanOrEqual(km);
+    expect(highKm).toBeGreaterThanOrEqual(km);
+    // Tight enough to be worth having: about 1.1 % wide, plus the two metres of slack.
+    expect(highKm - lowKm).toBeLessThanOrEqual(0.0111 * km + 0.002);
+  }
+
+  it('across the contiguous US and worldwide', () => {
+    const us = fc.tuple(fc.double({ min: 24, max: 49.5, noNaN: true }), fc.double({ min: -125, max: -66, noNaN: true }));
+    for (const [[lat1, lon1], [lat2, lon2]] of fc.sample(fc.tuple(us, us), { numRuns: 5000, seed: 7 })) check(lat1, lon1, lat2, lon2);
+    for (const [lat1, lon1, lat2, lon2] of fc.sample(fc.tuple(lat, lon, lat, lon), { numRuns: 5000, seed: 8 })) check(lat1, lon1, lat2, lon2);
+  });
+
+  it('for short, meridional, equatorial, polar and near-antipodal pairs, where sphere and ellipsoid differ most', () => {
+    const special: Array<[number, number, number, number]> = [
+      [0, 0, 0, 179.5], // equatorial
+      [0, 0, 0, 180], // antipodal on the equator
+      [0, 0, 0.5, 179.7], // near antipodal
+      [40, -100, -40, 80], // antipodal
+      [90, 0, -90, 0], // pole to pole
+      [-30, 20, 60, 20], // meridional
+      [0, 10, 0.01, 10], // short meridional arc at the equator: the smallest radius of curvature
+      [89.99, 0, 90, 0], // at the pole: the largest
+      [10, 10, 10, 10], // same point
+      [45, 0, 45, 0.000001], // a tenth of a metre
+    ];
+    for (const [lat1, lon1, lat2, lon2] of special) check(lat1, lon1, lat2, lon2);
+    // Around the antipode of random points, within a couple of degrees.
+    const offset = fc.double({ min: -2, max: 2, noNaN: true });
+    for (const [lat1, lon1, dLat, dLon] of fc.sample(fc.tuple(lat, lon, offset, offset), { numRuns: 3000, seed: 9 })) {
+      const lat2 = Math.max(-90, Math.min(90, -lat1 + dLat));
+      const lon2 = ((lon1 + 180 + dLon + 540) % 360) - 180;
+      check(lat1, lon1, lat2, lon2);
+    }
+    // Short lines everywhere, north–south and east–west.
+    const small = fc.double({ min: -0.05, max: 0.05, noNaN: true });
+    for (const [lat1, lon1, dLat, dLon] of fc.sample(fc.tuple(fc.double({ min: -89.9, max: 89.9, noNaN: true }), fc.double({ min: -179.9, max: 179.9, noNaN: true }), small, small), { numRuns: 3000, seed: 10 })) {
+      check(lat1, lon1, lat1 + dLat, lon1 + dLon);
     }
   });
 });

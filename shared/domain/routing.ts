@@ -67,6 +67,12 @@ export interface RoutingOptions {
    * cached prepared index can be routed with fresh counts.
    */
   openCases?: ReadonlyMap<string, number>;
+  /**
+   * Keep only the best `limit` candidates (a whole number ≥ 1): `ranked` is then exactly the first `limit`
+   * entries of the full ranking, ranks and tie sentences included; `excluded` and `candidateCount` are unchanged.
+   * Candidates that cannot reach the top `limit` get no exact distance or explanation, which is what makes it cheaper.
+   */
+  limit?: number;
 }
 
 export const exclusionCodes = [
@@ -119,6 +125,8 @@ export interface RankedLab {
 export interface RoutingResult {
   ranked: RankedLab[];
   excluded: ExcludedLab[];
+  /** How many labs qualified, whether or not `limit` cut `ranked` short. */
+  candidateCount: number;
 }
 
 const round1 = (value: number) => Math.round(value * 10) / 10;
@@ -140,11 +148,56 @@ function validateCase(kase: RoutingCase, options: RoutingOptions): void {
   if (!(options.asOf instanceof Date) || Number.isNaN(options.asOf.getTime())) {
     throw new RangeError('options.asOf must be a valid Date');
   }
+  if (options.limit !== undefined && !(Number.isInteger(options.limit) && options.limit >= 1)) {
+    throw new RangeError(`options.limit must be a whole number ≥ 1, got ${options.limit}`);
+  }
 }
 
 // Distances stay geographiclib's (Karney), as in geo.ts; asking for the distance alone skips the azimuths.
 const wgs84 = geographiclib.Geodesic.WGS84;
 const DISTANCE_ONLY = geographiclib.Geodesic.DISTANCE;
+
+// With a limit, most candidates are placed by a great-circle distance on a sphere with bounds that contain the
+// WGS-84 geodesic distance, and only those that might reach the top get geographiclib's exact one.
+// Sphere: the IUGG mean Earth radius R1 = 6 371 008.8 m (Moritz 1980, "Geodetic Reference System 1980").
+// Bounds: take a path on the sphere to the path with the same latitudes and longitudes on the ellipsoid. Its
+// length element changes by a factor between the smallest and largest radius of curvature over R1, i.e.
+// a(1 − e²)/R1 = 0.994417 (meridian at the equator) and a/√(1 − e²)/R1 = 1.004487 (at the poles), with WGS-84
+// a = 6 378 137 m, f = 1/298.257223563. Both distances are shortest paths, so
+// 0.994417 × sphere ≤ geodesic ≤ 1.004487 × sphere for any two points, antipodal ones included. The factors
+// used leave slack on both sides, plus a metre for rounding; geographiclib checks them in routing.test.ts.
+const MEAN_EARTH_RADIUS_KM = 6371.0088;
+const GEODESIC_OVER_SPHERE_LOW = 0.994;
+const GEODESIC_OVER_SPHERE_HIGH = 1.005;
+const BOUND_SLACK_KM = 0.001;
+const DEGREES = Math.PI / 180;
+
+/** Central angle (haversine, atan2 form: well conditioned from coincident to antipodal points) times R1, in km. */
+function sphereKm(lat1Rad: number, cosLat1: number, lon1: number, lat2: number, lon2: number): number {
+  const lat2Rad = lat2 * DEGREES;
+  const sinHalfLat = Math.sin((lat2Rad - lat1Rad) / 2);
+  const sinHalfLon = Math.sin(((lon2 - lon1) * DEGREES) / 2);
+  const h = Math.min(1, sinHalfLat * sinHalfLat + cosLat1 * Math.cos(lat2Rad) * sinHalfLon * sinHalfLon);
+  return 2 * MEAN_EARTH_RADIUS_KM * Math.atan2(Math.sqrt(h), Math.sqrt(1 - h));
+}
+
+const lowerKm = (sphere: number) => Math.max(0, sphere * GEODESIC_OVER_SPHERE_LOW - BOUND_SLACK_KM);
+const upperKm = (sphere: number) => sphere * GEODESIC_OVER_SPHERE_HIGH + BOUND_SLACK_KM;
+
+/**
+ * Bounds in km that contain the WGS-84 geodesic distance between two points, from the spherical distance
+ * routing uses to skip exact distances. Exported for its test.
+ */
+export function geodesicDistanceBoundsKm(from: LatLon, to: LatLon): { lowKm: number; highKm: number } {
+  const lat1 = from.lat * DEGREES;
+  const sphere = sphereKm(lat1, Math.cos(lat1), from.lon, to.lat, to.lon);
+  return { lowKm: lowerKm(sphere), highKm: upperKm(sphere) };
+}
+
+/** Transit days by zone (index 1–8), per mode, for the bounds loop. */
+const transitByZone = (mode: ShippingMode) => Float64Array.from({ length: 9 }, (_, z) => (z === 0 ? 0 : transitDaysForZone(z as Zone, mode)));
+const GROUND_TRANSIT = transitByZone('ground');
+const AIR_TRANSIT = transitByZone('air');
 
 const SKILL_COUNT = labSkills.length;
 const mediaBit = new Map<unknown, number>(mediaTypes.map((m, i) => [m, 1 << i]));
@@ -439,6 +492,175 @@ function missingSkillsReason(missing: number): ExclusionReason {
   return { code: 'missing_skills', message: `Lab lacks ${labels.join(', ')}.` };
 }
 
+/** The estimate, one decimal, as RankedLab.estimatedDays; the same expression everywhere so bounds match it. */
+const estimateOf = (transitDays: number, queueRaw: number, turnaround: number) => round1(transitDays + queueRaw + turnaround);
+
+/** The required skill with the lab's longest turnaround, the first in vocabulary order on a tie. */
+function hardestSkillIndex(turnaroundDays: Float64Array, base: number, requiredIdx: readonly number[]): number {
+  let hardest = requiredIdx[0];
+  for (const s of requiredIdx) if (turnaroundDays[base + s] > turnaroundDays[base + hardest]) hardest = s;
+  return hardest;
+}
+
+const SAME_ESTIMATE = 'Same estimate as the lab ranked above; ties go to the nearer lab.';
+
+/** A candidate's entry with its explanation (rank 0 until sorted). */
+function rankedLab(
+  index: PreparedRoutingLabs,
+  i: number,
+  distanceKm: number,
+  openCount: number,
+  requiredIdx: readonly number[],
+  mode: ShippingMode,
+  transitWords: string,
+  needsCleanAir: boolean,
+  needsHealth: boolean,
+): RankedLab {
+  const { turnaroundDays, weeklyThroughput, certificate } = index;
+  const distanceMiles = kmToMiles(distanceKm);
+  const zone = distanceZone(distanceMiles);
+  const transitDays = transitDaysForZone(zone, mode);
+  const queueRaw = (openCount / weeklyThroughput[i]) * BUSINESS_DAYS_PER_WEEK;
+  // The slowest required step bounds the case.
+  const base = i * SKILL_COUNT;
+  const hardest = hardestSkillIndex(turnaroundDays, base, requiredIdx);
+  const turnaround = turnaroundDays[base + hardest];
+  const hardestSkill = labSkills[hardest];
+  const estimatedDays = estimateOf(transitDays, queueRaw, turnaround);
+  const queueDays = round1(queueRaw);
+  const reasons = [
+    `About ${estimatedDays} business days until the customer has data.`,
+    `${Math.round(distanceMiles)} mi from the shop (zone ${zone}): ${plural(transitDays, 'business day')} ${transitWords}`,
+    `Queue: ${plural(openCount, 'open case')} at ${weeklyThroughput[i]} a week: ${queueDays} business days.`,
+    requiredIdx.length > 1
+      ? `Turnaround for ${labSkillLabels[hardestSkill]}, the slowest required skill here: ${plural(turnaround, 'business day')}.`
+      : `Turnaround for ${labSkillLabels[hardestSkill]}: ${plural(turnaround, 'business day')}.`,
+  ];
+  const v = needsCleanAir ? certificate[i] : null;
+  if (v) reasons.push(`Clean air ISO class ${v.isoClass}, tested ${v.testedOn}, current until ${v.currentUntil}.`);
+  if (needsHealth) reasons.push('Has signed the health-data agreement.');
+  // Written out twice rather than spread: object spread costs more than the rest of this function.
+  return v
+    ? {
+        rank: 0,
+        labId: index.ids[i],
+        labName: index.names[i],
+        estimatedDays,
+        distanceKm,
+        distanceMiles,
+        zone,
+        shippingMode: mode,
+        transitDays,
+        queueDays,
+        hardestSkill,
+        turnaroundDays: turnaround,
+        cleanAir: { isoClass: v.isoClass, testedOn: v.testedOn, currentUntil: v.currentUntil },
+        reasons,
+      }
+    : {
+        rank: 0,
+        labId: index.ids[i],
+        labName: index.names[i],
+        estimatedDays,
+        distanceKm,
+        distanceMiles,
+        zone,
+        shippingMode: mode,
+        transitDays,
+        queueDays,
+        hardestSkill,
+        turnaroundDays: turnaround,
+        reasons,
+      };
+}
+
+const exactKm = (shopLat: number, shopLon: number, lat: number, lon: number) =>
+  (wgs84.Inverse(shopLat, shopLon, lat, lon, DISTANCE_ONLY).s12 ?? 0) / 1000;
+
+/**
+ * The best `limit` of the candidates (fewer than there are), in rank order, ranks and tie sentences set: exactly
+ * the first `limit` of the full ranking. Each candidate's sort key (the estimate in tenths) is bounded from the
+ * spherical distance bounds: zones step up with distance, so the zones of the two bounds bracket its zone, and
+ * the key does not fall as transit days rise (IEEE sums and Math.round are monotone). The limit-th smallest upper
+ * bound T is at least the limit-th smallest true key, so a candidate whose lower bound exceeds T sorts after at
+ * least `limit` others; everyone else gets the exact distance and key and is sorted as the full ranking sorts.
+ */
+function bestCandidates(
+  index: PreparedRoutingLabs,
+  candidateLabs: readonly number[],
+  limit: number,
+  shopLat: number,
+  shopLon: number,
+  open: Float64Array,
+  requiredIdx: readonly number[],
+  mode: ShippingMode,
+  transitWords: string,
+  needsCleanAir: boolean,
+  needsHealth: boolean,
+): RankedLab[] {
+  const { lat, lon, turnaroundDays, weeklyThroughput, ids, names } = index;
+  const m = candidateLabs.length;
+  const transit = mode === 'air' ? AIR_TRANSIT : GROUND_TRANSIT;
+  const lat1 = shopLat * DEGREES;
+  const cosLat1 = Math.cos(lat1);
+  const keyLow = new Float64Array(m);
+  const keyHigh = new Float64Array(m);
+  for (let k = 0; k < m; k++) {
+    const i = candidateLabs[k];
+    const sphere = sphereKm(lat1, cosLat1, shopLon, lat[i], lon[i]);
+    const zoneLow = distanceZone(kmToMiles(lowerKm(sphere)));
+    const zoneHigh = distanceZone(kmToMiles(upperKm(sphere)));
+    // Smallest and largest transit over the zones between, so the bound needs no assumption about the table.
+    let fewest = transit[zoneLow];
+    let most = fewest;
+    for (let z = zoneLow + 1; z <= zoneHigh; z++) {
+      if (transit[z] < fewest) fewest = transit[z];
+      if (transit[z] > most) most = transit[z];
+    }
+    const queueRaw = (open[i] / weeklyThroughput[i]) * BUSINESS_DAYS_PER_WEEK;
+    const base = i * SKILL_COUNT;
+    const turnaround = turnaroundDays[base + hardestSkillIndex(turnaroundDays, base, requiredIdx)];
+    keyLow[k] = Math.round(estimateOf(fewest, queueRaw, turnaround) * 10);
+    keyHigh[k] = Math.round(estimateOf(most, queueRaw, turnaround) * 10);
+  }
+  const threshold = keyHigh.slice().sort()[limit - 1];
+
+  // Positions (into candidateLabs, so input order) of the candidates that may rank in the top `limit`.
+  const maybe: number[] = [];
+  const distance = new Float64Array(m);
+  const key = new Float64Array(m);
+  for (let k = 0; k < m; k++) {
+    if (keyLow[k] > threshold) continue;
+    const i = candidateLabs[k];
+    const km = exactKm(shopLat, shopLon, lat[i], lon[i]);
+    const queueRaw = (open[i] / weeklyThroughput[i]) * BUSINESS_DAYS_PER_WEEK;
+    const base = i * SKILL_COUNT;
+    const turnaround = turnaroundDays[base + hardestSkillIndex(turnaroundDays, base, requiredIdx)];
+    distance[k] = km;
+    key[k] = Math.round(estimateOf(transitDaysForZone(distanceZone(kmToMiles(km)), mode), queueRaw, turnaround) * 10);
+    maybe.push(k);
+  }
+  // compareRanked on these figures; the sort is stable and `maybe` is in input order, as the full ranking's is.
+  maybe.sort(
+    (a, b) =>
+      key[a] - key[b] ||
+      distance[a] - distance[b] ||
+      names[candidateLabs[a]].localeCompare(names[candidateLabs[b]]) ||
+      ids[candidateLabs[a]].localeCompare(ids[candidateLabs[b]]),
+  );
+
+  const ranked = new Array<RankedLab>(limit);
+  for (let r = 0; r < limit; r++) {
+    const k = maybe[r];
+    const i = candidateLabs[k];
+    const entry = rankedLab(index, i, distance[k], open[i], requiredIdx, mode, transitWords, needsCleanAir, needsHealth);
+    entry.rank = r + 1;
+    if (r > 0 && key[maybe[r - 1]] === key[k]) entry.reasons.push(SAME_ESTIMATE);
+    ranked[r] = entry;
+  }
+  return ranked;
+}
+
 // Ranked labs are sorted before their rank is known; the estimate's tenths order them, then distance.
 function compareRanked(a: RankedLab, b: RankedLab): number {
   return (
@@ -485,7 +707,7 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[] | Prepa
     return local.isValid ? (local.toISODate() as string) : null;
   });
 
-  const { ids, names, zoneOf, active, healthDataAgreement, mediaMask, skillMask, badTurnaroundMask, turnaroundDays } = index;
+  const { ids, names, zoneOf, active, healthDataAgreement, mediaMask, skillMask, badTurnaroundMask } = index;
   const { openCases, openCasesInvalid, queueCapacity, weeklyThroughput, profileInvalid, certificateKind, certificate } = index;
   const n = index.size;
   // Three passes, so that the geodesic calls (which make much short-lived garbage) run before the
@@ -536,73 +758,22 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[] | Prepa
   }
 
   // 2. The candidates, with their estimates and explanations (written for candidates only: most labs are
-  // excluded). The rank is set once they are sorted.
-  const ranked: RankedLab[] = new Array<RankedLab>(candidateLabs.length);
-  for (let k = 0; k < candidateLabs.length; k++) {
-    const i = candidateLabs[k];
-    const distanceKm = (wgs84.Inverse(shopLat, shopLon, index.lat[i], index.lon[i], DISTANCE_ONLY).s12 ?? 0) / 1000;
-    const distanceMiles = kmToMiles(distanceKm);
-    const zone = distanceZone(distanceMiles);
-    const transitDays = transitDaysForZone(zone, mode);
-    const openCount = open[i];
-    const queueRaw = (openCount / weeklyThroughput[i]) * BUSINESS_DAYS_PER_WEEK;
-    // The slowest required step bounds the case; "hardest" is the skill with the lab's longest turnaround,
-    // the first in vocabulary order on a tie.
-    const base = i * SKILL_COUNT;
-    let hardest = requiredIdx[0];
-    for (const s of requiredIdx) if (turnaroundDays[base + s] > turnaroundDays[base + hardest]) hardest = s;
-    const turnaround = turnaroundDays[base + hardest];
-    const hardestSkill = labSkills[hardest];
-    const estimatedDays = round1(transitDays + queueRaw + turnaround);
-    const queueDays = round1(queueRaw);
-    const reasons = [
-      `About ${estimatedDays} business days until the customer has data.`,
-      `${Math.round(distanceMiles)} mi from the shop (zone ${zone}): ${plural(transitDays, 'business day')} ${transitWords}`,
-      `Queue: ${plural(openCount, 'open case')} at ${weeklyThroughput[i]} a week: ${queueDays} business days.`,
-      requiredIdx.length > 1
-        ? `Turnaround for ${labSkillLabels[hardestSkill]}, the slowest required skill here: ${plural(turnaround, 'business day')}.`
-        : `Turnaround for ${labSkillLabels[hardestSkill]}: ${plural(turnaround, 'business day')}.`,
-    ];
-    const v = needsCleanAir ? certificate[i] : null;
-    if (v) reasons.push(`Clean air ISO class ${v.isoClass}, tested ${v.testedOn}, current until ${v.currentUntil}.`);
-    if (needsHealth) reasons.push('Has signed the health-data agreement.');
-    // Written out twice rather than spread: object spread costs more than the rest of this loop.
-    ranked[k] = v
-      ? {
-          rank: 0,
-          labId: ids[i],
-          labName: names[i],
-          estimatedDays,
-          distanceKm,
-          distanceMiles,
-          zone,
-          shippingMode: mode,
-          transitDays,
-          queueDays,
-          hardestSkill,
-          turnaroundDays: turnaround,
-          cleanAir: { isoClass: v.isoClass, testedOn: v.testedOn, currentUntil: v.currentUntil },
-          reasons,
-        }
-      : {
-          rank: 0,
-          labId: ids[i],
-          labName: names[i],
-          estimatedDays,
-          distanceKm,
-          distanceMiles,
-          zone,
-          shippingMode: mode,
-          transitDays,
-          queueDays,
-          hardestSkill,
-          turnaroundDays: turnaround,
-          reasons,
-        };
+  // excluded; with a limit, only for the best). Without a limit the rank is set once they are sorted.
+  const candidateCount = candidateLabs.length;
+  const limited = options.limit !== undefined && options.limit < candidateCount;
+  let ranked: RankedLab[];
+  if (limited) {
+    ranked = bestCandidates(index, candidateLabs, options.limit as number, shopLat, shopLon, open, requiredIdx, mode, transitWords, needsCleanAir, needsHealth);
+  } else {
+    ranked = new Array<RankedLab>(candidateCount);
+    for (let k = 0; k < candidateCount; k++) {
+      const i = candidateLabs[k];
+      ranked[k] = rankedLab(index, i, exactKm(shopLat, shopLon, index.lat[i], index.lon[i]), open[i], requiredIdx, mode, transitWords, needsCleanAir, needsHealth);
+    }
   }
 
   // 3. The exclusions, in input order. Labs with the same reasons share one list unless a message is the lab's own.
-  const excluded: ExcludedLab[] = new Array<ExcludedLab>(n - candidateLabs.length);
+  const excluded: ExcludedLab[] = new Array<ExcludedLab>(n - candidateCount);
   let e = 0;
   const sharedLists = new Map<number, ExclusionReason[]>();
   const missingReasons = new Map<number, ExclusionReason>();
@@ -642,13 +813,15 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[] | Prepa
     excluded[e++] = { labId: ids[i], labName: names[i], reasons };
   }
 
-  // Stable, and the labs are in input order, so equal labs keep that order.
-  ranked.sort(compareRanked);
-  for (let k = 0; k < ranked.length; k++) {
-    ranked[k].rank = k + 1;
-    if (k > 0 && Math.round(ranked[k - 1].estimatedDays * 10) === Math.round(ranked[k].estimatedDays * 10)) {
-      ranked[k].reasons.push('Same estimate as the lab ranked above; ties go to the nearer lab.');
+  if (!limited) {
+    // Stable, and the labs are in input order, so equal labs keep that order.
+    ranked.sort(compareRanked);
+    for (let k = 0; k < ranked.length; k++) {
+      ranked[k].rank = k + 1;
+      if (k > 0 && Math.round(ranked[k - 1].estimatedDays * 10) === Math.round(ranked[k].estimatedDays * 10)) {
+        ranked[k].reasons.push(SAME_ESTIMATE);
+      }
     }
   }
-  return { ranked, excluded };
+  return { ranked, excluded, candidateCount };
 }
