@@ -4,7 +4,8 @@ import { triage } from '@shared/domain/triage';
 import { labSkills, mediaTypes, type LabSkill } from '@shared/vocabulary';
 import { summarize } from './stats';
 
-// Routing one case against 10 000 labs, in process. Target (issue): p95 ≤ 5 ms.
+// Routing one case against 10 000 labs, in process. Target (issue): p95 ≤ 5 ms, for the ranking the server
+// asks for: the best 25 candidates (what a shop sees on the map and the case page), every exclusion listed.
 // The labs are synthetic, spread over the contiguous US with a seeded generator. The server keeps the
 // prepared index and passes fresh open-case counts with each request, so that is what is timed here;
 // each request also comes from a different shop, so nothing about one origin is reused.
@@ -65,27 +66,35 @@ function freshOpenCases(labs: readonly RoutingLab[], r: () => number): Map<strin
   return counts;
 }
 
-function timeCase(label: string, labs: readonly RoutingLab[], prepared: ReturnType<typeof prepareRoutingLabs>, kase: Omit<RoutingCase, 'shopLocation'>, target?: { p95: number }) {
+function timeCase(
+  label: string,
+  labs: readonly RoutingLab[],
+  prepared: ReturnType<typeof prepareRoutingLabs>,
+  kase: Omit<RoutingCase, 'shopLocation'>,
+  limit?: number,
+  target?: { p95: number },
+) {
   const asOf = new Date('2026-12-01T15:00:00Z');
   const origins = shopOrigins();
   const r = rng(3);
   const at = (i: number): RoutingCase => ({ ...kase, shopLocation: origins[i % origins.length] });
-  for (let i = 0; i < 20; i++) routeCase(at(i), prepared, { asOf, openCases: freshOpenCases(labs, r) }); // warm-up
+  for (let i = 0; i < 20; i++) routeCase(at(i), prepared, { asOf, openCases: freshOpenCases(labs, r), limit }); // warm-up
   const samples: number[] = [];
   let fewest = Infinity;
   let most = 0;
   for (let i = 0; i < 200; i++) {
     // The server's query and request, not routing: untimed.
-    const options = { asOf, openCases: freshOpenCases(labs, r) };
+    const options = { asOf, openCases: freshOpenCases(labs, r), limit };
     const routed = at(20 + i);
     const t0 = performance.now();
-    const ranked = routeCase(routed, prepared, options).ranked.length;
+    const candidates = routeCase(routed, prepared, options).candidateCount;
     samples.push(performance.now() - t0);
-    fewest = Math.min(fewest, ranked);
-    most = Math.max(most, ranked);
+    fewest = Math.min(fewest, candidates);
+    most = Math.max(most, candidates);
   }
-  console.log(`routing: 10 000 labs, ${fewest === most ? most : `${fewest}–${most}`} candidates for ${label}, ${origins.length} shop origins`);
-  return summarize(`routing one case against 10 000 labs (${label})`, samples, target);
+  const count = fewest === most ? `${most}` : `${fewest}–${most}`;
+  const ranking = limit === undefined ? `all ${count} candidates ranked` : `best ${limit} of ${count} candidates`;
+  return summarize(`routing one case against 10 000 labs, ${origins.length} shop origins (${label}, ${ranking})`, samples, target);
 }
 
 export function benchRouting() {
@@ -102,8 +111,11 @@ export function benchRouting() {
   summarize('preparing the index of 10 000 labs', prepareSamples);
 
   const clicking = triage({ mediaType: 'hdd_3_5', symptoms: ['clicking'], sensitivity: [] });
-  const result = timeCase('a clicking 3.5″ drive', labs, prepared, { mediaType: 'hdd_3_5', requirements: clicking }, { p95: 5 });
-  // More candidates, so more distances and explanations; for information, no target.
+  const clickingCase = { mediaType: 'hdd_3_5', requirements: clicking } as const;
+  const result = timeCase('a clicking 3.5″ drive', labs, prepared, clickingCase, 25, { p95: 5 });
+  // For information, no target: the same case with every candidate ranked and explained, and a logical-only
+  // case (more candidates, so more distances and explanations), also unlimited.
+  timeCase('a clicking 3.5″ drive', labs, prepared, clickingCase);
   const deleted = triage({ mediaType: 'usb_flash', symptoms: ['deleted_files'], sensitivity: [] });
   timeCase('deleted files on a USB flash drive', labs, prepared, { mediaType: 'usb_flash', requirements: deleted });
   return result;
