@@ -1,3 +1,3 @@
 export { CheckIn, CheckInPhoto, LabTransfer } from './entities';
 export { receivingRoutes } from './routes';
-export { inboundBoard, lookupBox, checkInBox, declineAfterArrival, parseScannedCode, openCheckInPhoto, BOARD_SQL, boardParams } from './service';
+export { inboundBoard, lookupBox, checkInBox, declineAfterArrival, releaseHold, parseScannedCode, openCheckInPhoto, BOARD_SQL, boardParams } from './service';

@@ -59,6 +59,10 @@ export function receivingRoutes(ctx: ServiceContext, guard: Guard, storage: Blob
     res.setHeader('X-Content-Type-Options', 'nosniff');
     await pipeline(photo.stream, res);
   });
+  router.post('/lab/cases/:id/release-hold', guard.authorize('offers.respond'), async (req, res) => {
+    const { id } = parseInput(idParam, req.params);
+    res.json(await receiving.releaseHold(ctx, actorOf(req), id, req.body));
+  });
   router.post('/lab/cases/:id/decline-after-arrival', guard.authorize('offers.respond'), async (req, res) => {
     const { id } = parseInput(idParam, req.params);
     res.json(await receiving.declineAfterArrival(ctx, actorOf(req), id, req.body));

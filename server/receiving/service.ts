@@ -8,6 +8,7 @@ import {
   checkInInput,
   checkInLookupQuery,
   declineAfterArrivalInput,
+  releaseHoldInput,
   inboundBoardQuery,
   type BoardBucket,
   type BoardRowDto,
@@ -414,6 +415,32 @@ export async function openCheckInPhoto(ctx: ServiceContext, storage: BlobStorage
 }
 
 // ---- declining after arrival: the case moves on, the device follows by transfer -----------------
+
+/**
+ * The lab's manager releases a case held at check-in (damaged box, broken seal, contents that differ,
+ * a battery to isolate) once it is settled: the case is received and goes on to the bench.
+ */
+export async function releaseHold(ctx: ServiceContext, actor: Actor, referralId: string, rawInput: unknown): Promise<{ referralId: string; status: CaseStatus }> {
+  const input = parseInput(releaseHoldInput, rawInput);
+  const labId = labOf(actor);
+  if (!/^[0-9a-f-]{36}$/i.test(referralId)) throw AppError.notFound('That case');
+  return ctx.db.transaction(async (manager) => {
+    const referral = await lockReferral(manager, referralId);
+    if (!referral || referral.labOrganizationId !== labId) throw AppError.notFound('That case');
+    if (referral.status !== 'on_hold') throw AppError.conflict(`The case is not on hold: it is ${caseStatusLabels[referral.status].toLowerCase()}.`);
+    const now = new Date();
+    const name = await personName(manager, actor.userId);
+    await manager.update(Referral, referralId, { status: 'received' });
+    await addTimelineEntry(manager, referralId, {
+      kind: 'hold_released',
+      summary: `Hold released by ${name}: ${input.note}`,
+      actor: { type: 'user', id: actor.userId, name },
+      at: now,
+      details: { note: input.note },
+    });
+    return { referralId, status: 'received' as const };
+  });
+}
 
 export async function declineAfterArrival(ctx: ServiceContext, actor: Actor, referralId: string, rawInput: unknown): Promise<{ referralId: string; status: CaseStatus; transferId: string }> {
   const input = parseInput(declineAfterArrivalInput, rawInput);

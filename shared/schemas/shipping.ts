@@ -352,6 +352,16 @@ export const declineAfterArrivalInput = z.object({
 });
 export type DeclineAfterArrivalInput = z.input<typeof declineAfterArrivalInput>;
 
+/** The lab's manager releases a case it put on hold at check-in, saying what settled it. */
+export const releaseHoldInput = z.object({
+  note: z
+    .string({ message: 'Say what settled the hold, for the shop' })
+    .trim()
+    .min(1, 'Say what settled the hold, for the shop')
+    .max(1000, 'Use at most 1000 characters'),
+});
+export type ReleaseHoldInput = z.input<typeof releaseHoldInput>;
+
 export const outboundItemDto = z.object({
   referralId: z.string().uuid(),
   reference: z.string(),

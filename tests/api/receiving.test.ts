@@ -190,6 +190,38 @@ describe('checking a box in (POST /api/lab/check-ins)', () => {
   });
 });
 
+describe('releasing a hold (POST /api/lab/cases/:id/release-hold)', () => {
+  it('lets the lab manager release a held case with a note: it is received, the timeline says why; only once, only for the own lab', async () => {
+    const { staff, clerk, manager, referral } = await scene();
+    await buyLabel(staff.token, referral.id);
+    const held = await request(app).post('/api/lab/check-ins').set(auth(clerk.token)).send(intact(referral.id, { boxCondition: 'damaged' }));
+    expect(held.body.caseStatus).toBe('on_hold');
+
+    const noNote = await request(app).post(`/api/lab/cases/${referral.id}/release-hold`).set(auth(manager.token)).send({});
+    expect(noNote.status).toBe(400);
+    expect(noNote.body.error.fields).toEqual([{ path: 'note', message: 'Say what settled the hold, for the shop' }]);
+    const byClerk = await request(app).post(`/api/lab/cases/${referral.id}/release-hold`).set(auth(clerk.token)).send({ note: 'Drive inspected' });
+    expect(byClerk.status).toBe(403);
+    const other = await scene();
+    const otherLab = await request(app).post(`/api/lab/cases/${referral.id}/release-hold`).set(auth(other.manager.token)).send({ note: 'Not ours' });
+    expect(otherLab.status).toBe(404);
+    expect(await caseStatus(referral.id)).toBe('on_hold');
+
+    const released = await request(app)
+      .post(`/api/lab/cases/${referral.id}/release-hold`)
+      .set(auth(manager.token))
+      .send({ note: 'Outer box dented only; the drive is unharmed.' });
+    expect(released.status).toBe(200);
+    expect(released.body).toEqual({ referralId: referral.id, status: 'received' });
+    expect(await caseStatus(referral.id)).toBe('received');
+    const [entry] = await db.query(`SELECT summary, actor_name FROM referral_timeline WHERE referral_id = $1 AND kind = 'hold_released'`, [referral.id]);
+    expect(entry.summary).toBe(`Hold released by ${entry.actor_name}: Outer box dented only; the drive is unharmed.`);
+
+    const again = await request(app).post(`/api/lab/cases/${referral.id}/release-hold`).set(auth(manager.token)).send({ note: 'Twice' });
+    expect(again.status).toBe(409);
+  });
+});
+
 describe('outbound: returns and lab-to-lab transfers', () => {
   it('ships the device back to the customer, signed for and with a declared value; the case is returned at the first scan', async () => {
     const { staff, clerk, referral } = await scene();

@@ -19,6 +19,7 @@ import { BoxAndRates } from '@/features/shipping/components/box-and-rates';
 import { ShipmentCard } from '@/features/shipping/components/shipment-card';
 import { createReturn, createTransfer } from '../api/create-outbound-shipment';
 import { useDeclineAfterArrival } from '../api/decline-after-arrival';
+import { releaseHoldInput, useReleaseHold } from '../api/release-hold';
 import { useOutbound } from '../api/get-outbound';
 
 const afterArrivalReasons = declineAfterArrivalInput.shape.reason.options;
@@ -61,6 +62,43 @@ function DeclineAfterArrival({ item }: { item: OutboundItemDto }) {
         </Button>
         <Button variant="secondary" onClick={() => setOpen(false)}>
           Keep the case
+        </Button>
+      </div>
+    </form>
+  );
+}
+
+/** A case held at check-in goes on to the bench once the manager says what settled it. */
+function ReleaseHold({ item }: { item: OutboundItemDto }) {
+  const [note, setNote] = useState('');
+  const [problem, setProblem] = useState<string | null>(null);
+  const release = useReleaseHold();
+  return (
+    <form
+      className="flex flex-col gap-3 rounded-control border border-ink-hairline p-3"
+      onSubmit={async (e) => {
+        e.preventDefault();
+        const parsed = releaseHoldInput.safeParse({ note });
+        if (!parsed.success) return setProblem(parsed.error.issues[0]?.message ?? 'Say what settled the hold.');
+        try {
+          await release.mutateAsync({ referralId: item.referralId, input: parsed.data });
+          toast.success(`${item.reference} is received and can go to the bench.`);
+          setNote('');
+          setProblem(null);
+        } catch (error) {
+          setProblem(isApiError(error) ? error.message : 'The hold could not be released.');
+        }
+      }}
+    >
+      <p className="text-sm text-ink-muted">
+        Release the hold once it is settled. Keep a swollen or leaking battery isolated in its non-combustible container until it is removed by
+        someone trained for it; local rules for damaged lithium cells apply.
+      </p>
+      <Textarea label="What settled it (the shop sees this)" rows={2} value={note} onChange={(e) => setNote(e.target.value)} />
+      {problem ? <Alert tone="danger">{problem}</Alert> : null}
+      <div>
+        <Button type="submit" isLoading={release.isPending}>
+          Release the hold
         </Button>
       </div>
     </form>
@@ -124,6 +162,7 @@ function Item({ item }: { item: OutboundItemDto }) {
     >
       <div className="flex flex-col gap-3">
         {item.waitingFor ? <Alert tone="info">{item.waitingFor}</Alert> : null}
+        {item.caseStatus === 'on_hold' && can('offers.respond') ? <ReleaseHold item={item} /> : null}
         {sent ? <ShipmentCard shipment={item.shipment!} canVoid={can('outbound.ship')} /> : null}
         {!sent && item.ready && can('outbound.ship') ? (
           shipping ? (
