@@ -30,31 +30,17 @@ export async function recordTimeline(manager: EntityManager, referral: string | 
   const at = entry.at ?? new Date();
   const referralId = typeof referral === 'string' ? referral : referral.id;
   await emitForTimelineEntry(manager, referral, { kind: entry.kind, summary: entry.summary, at, actorName: entry.actor.name, details: entry.details });
+  const row = {
+    referralId,
+    at,
+    kind: entry.kind,
+    summary: entry.summary,
+    actorType: entry.actor.type,
+    actorId: entry.actor.id ?? null,
+    actorName: entry.actor.name,
+    details: entry.details ?? {},
+  };
   const buffer = appendBufferOf(manager);
-  if (buffer) {
-    buffer.timeline.push({
-      id: newRowId(),
-      referralId,
-      at,
-      kind: entry.kind,
-      summary: entry.summary,
-      actorType: entry.actor.type,
-      actorId: entry.actor.id ?? null,
-      actorName: entry.actor.name,
-      details: entry.details ?? {},
-    });
-    return;
-  }
-  await manager.save(
-    manager.create(TimelineEntry, {
-      referralId,
-      at,
-      kind: entry.kind,
-      summary: entry.summary,
-      actorType: entry.actor.type,
-      actorId: entry.actor.id ?? null,
-      actorName: entry.actor.name,
-      details: entry.details ?? {},
-    }),
-  );
+  if (buffer) buffer.timeline.push({ id: newRowId(), ...row });
+  else await manager.save(manager.create(TimelineEntry, row));
 }
