@@ -359,7 +359,9 @@ class PreparedRoutingLabs {
 
     for (let i = 0; i < n; i++) {
       const lab = labs[i];
-      this.ids[i] = lab.id;
+      // A copy, made here so the labs' ids lie together in memory: each request looks every one up in its
+      // open-case map, and reading ids scattered among the lab objects cost a cache miss apiece (bench routing).
+      this.ids[i] = (' ' + lab.id).slice(1);
       this.names[i] = lab.name;
       let zone = zoneIndex.get(lab.timeZone);
       if (zone === undefined) {
