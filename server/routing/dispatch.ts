@@ -226,7 +226,7 @@ export async function routeAndOffer(
     options.previouslyOfferedLabIds ?? [...new Set((await manager.find(LabOffer, { where: { referralId: referral.id } })).map((o) => o.labOrganizationId))];
   const ranking = await rankLabs(manager, caseForRouting(referral), { asOf: options.now, previouslyOfferedLabIds });
   const snapshot = await saveSnapshot(manager, referral, ranking, options.trigger);
-  const n = ranking.candidates.length;
+  const n = ranking.candidateCount;
   await recordTimeline(manager, referral, {
     kind: 'routed',
     summary:
@@ -349,9 +349,11 @@ export async function assignInTransaction(
   how: { actor: TimelineActor & { id: string }; note: string | null; now: Date },
 ): Promise<DispatchOutcome> {
   const previous = await manager.find(LabOffer, { where: { referralId: referral.id } });
+  // Every candidate, so that the chosen lab's place in the ranking is known wherever it stands.
   const ranking = await rankLabs(manager, caseForRouting(referral), {
     asOf: how.now,
     previouslyOfferedLabIds: [...new Set(previous.map((o) => o.labOrganizationId))],
+    limit: null,
   });
   const snapshot = await saveSnapshot(manager, referral, ranking, 'manual');
   const candidate = ranking.candidates.find((c) => c.labId === lab.id);

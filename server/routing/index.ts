@@ -2,7 +2,7 @@ export { LabProfile, CleanAirCertificate, RoutingSnapshot, LabOffer, type OfferS
 export { routingRoutes } from './routes';
 export { registerRoutingJobs } from './jobs';
 export { loadLabs, LAB_OPEN_STATUSES, type LoadedLab } from './labs';
-export { rankLabs, noCandidateReason, type CaseForRouting, type Ranking } from './ranking';
+export { rankLabs, noCandidateReason, RANKED_SHOWN, type CaseForRouting, type Ranking } from './ranking';
 export { lookupPostalCode, resolvePostalCode, type Place } from './places';
 export { recordTimeline, routingActor, type TimelineActor, type TimelineInput } from './timeline';
 export {

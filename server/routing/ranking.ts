@@ -16,8 +16,17 @@ export interface CaseForRouting {
   triage: Pick<TriageResult, 'requiredSkills' | 'needsCleanAir' | 'needsHealthDataAgreement' | 'batteryHazard'>;
 }
 
+/**
+ * How many candidates a ranking keeps by default: what the shop sees on the map and the case page, and
+ * what a case's routing snapshot records. Ranking only the best is what keeps routing fast on a large network.
+ */
+export const RANKED_SHOWN = 25;
+
 export interface Ranking {
+  /** The best candidates, best first (all of them when the caller asked for no limit). */
   candidates: CandidateDto[];
+  /** How many labs qualified in all. */
+  candidateCount: number;
   excluded: ExcludedDto[];
   ranked: RankedLab[];
   labs: Map<string, LoadedLab>;
@@ -26,7 +35,7 @@ export interface Ranking {
 export async function rankLabs(
   manager: EntityManager,
   kase: CaseForRouting,
-  options: { asOf: Date; previouslyOfferedLabIds?: readonly string[] },
+  options: { asOf: Date; previouslyOfferedLabIds?: readonly string[]; /** Defaults to RANKED_SHOWN; null ranks every candidate. */ limit?: number | null },
 ): Promise<Ranking> {
   const { directory, openCases } = await readLabDirectory(manager);
   const byId = directory.byId;
@@ -42,7 +51,12 @@ export async function rankLabs(
       },
     },
     directory.prepared,
-    { asOf: options.asOf, previouslyOfferedLabIds: options.previouslyOfferedLabIds, openCases },
+    {
+      asOf: options.asOf,
+      previouslyOfferedLabIds: options.previouslyOfferedLabIds,
+      openCases,
+      ...(options.limit === null ? {} : { limit: options.limit ?? RANKED_SHOWN }),
+    },
   );
 
   const candidates: CandidateDto[] = result.ranked.map((r) => ({
@@ -70,7 +84,7 @@ export async function rankLabs(
     }),
     ...directory.unroutable,
   ].sort((a, b) => a.labName.localeCompare(b.labName) || a.labId.localeCompare(b.labId));
-  return { candidates, excluded, ranked: result.ranked, labs: byId };
+  return { candidates, candidateCount: result.candidateCount, excluded, ranked: result.ranked, labs: byId };
 }
 
 // [one lab, several labs]

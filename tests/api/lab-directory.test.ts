@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import { triage } from '@shared/domain/triage';
 import { readLabDirectory } from '../../server/routing/directory';
+import { rankLabs, RANKED_SHOWN } from '../../server/routing/ranking';
 import { setupApi } from '../support/api';
 
 // Routing holds the labs in memory and follows the database through lab_directory_version.
@@ -59,5 +61,26 @@ describe('the lab directory routing reads', () => {
         throw new Error('undo');
       })
       .catch((e: Error) => expect(e.message).toBe('undo'));
+  });
+});
+
+describe('rankLabs', () => {
+  const kase = { mediaType: 'usb_flash' as const, origin: { lat: 39.7392, lon: -104.9903 }, triage: triage({ mediaType: 'usb_flash', symptoms: ['deleted_files'], sensitivity: [] }) };
+  const asOf = new Date('2026-12-01T15:00:00Z');
+
+  it('keeps the best candidates only, exactly the head of the full ranking, and says how many qualified', async () => {
+    const full = await rankLabs(db.manager, kase, { asOf, limit: null });
+    expect(full.candidates.length).toBeGreaterThan(1);
+    expect(full.candidateCount).toBe(full.candidates.length);
+    const best = await rankLabs(db.manager, kase, { asOf, limit: 1 });
+    expect(best.candidates).toEqual(full.candidates.slice(0, 1));
+    expect(best.candidateCount).toBe(full.candidateCount);
+    expect(best.excluded).toEqual(full.excluded);
+  });
+
+  it(`keeps ${RANKED_SHOWN} by default`, async () => {
+    const full = await rankLabs(db.manager, kase, { asOf, limit: null });
+    const shown = await rankLabs(db.manager, kase, { asOf });
+    expect(shown.candidates).toEqual(full.candidates.slice(0, RANKED_SHOWN));
   });
 });
