@@ -114,9 +114,10 @@ export function benchRouting() {
   const clickingCase = { mediaType: 'hdd_3_5', requirements: clicking } as const;
   const result = timeCase('a clicking 3.5″ drive', labs, prepared, clickingCase, 25, { p95: 5 });
   // For information, no target: the same case with every candidate ranked and explained, and a logical-only
-  // case (more candidates, so more distances and explanations), also unlimited.
+  // case (more candidates, so more distances and explanations), best 25 as the server asks and unlimited.
   timeCase('a clicking 3.5″ drive', labs, prepared, clickingCase);
   const deleted = triage({ mediaType: 'usb_flash', symptoms: ['deleted_files'], sensitivity: [] });
+  timeCase('deleted files on a USB flash drive', labs, prepared, { mediaType: 'usb_flash', requirements: deleted }, 25);
   timeCase('deleted files on a USB flash drive', labs, prepared, { mediaType: 'usb_flash', requirements: deleted });
   return result;
 }
