@@ -101,14 +101,17 @@ export const emailTemplates = {
       paragraphs: [`Hello ${d.name},`, `Case ${d.reference} is no longer with ${d.labName}: ${d.reason}`, 'Nothing needs doing on your side.'],
     }),
   }),
-  referral_accepted: (d: { name: string; reference: string; customerName: string; labName: string; url: string }) => ({
+  referral_accepted: (d: { name: string; reference: string; customerName: string; labName: string; url: string; fromLab?: string | null }) => ({
     subject: `${d.labName} accepted case ${d.reference}`,
     ...layout({
       heading: `A lab accepted ${d.reference}`,
       paragraphs: [
         `Hello ${d.name},`,
         `${d.labName} accepted the case of ${d.customerName} (${d.reference}).`,
-        'Next: print the prepaid label and pack the device by the packing rules shown on the case.',
+        // A case moving between labs: the device is already at a lab, which ships it on.
+        d.fromLab
+          ? `${d.fromLab} ships the device on to ${d.labName}; nothing is needed from you.`
+          : 'Next: buy the prepaid label and pack the device by the packing rules shown on the case.',
       ],
       action: { label: 'Open the case', url: d.url },
     }),

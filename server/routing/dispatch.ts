@@ -78,6 +78,8 @@ interface OfferTerms {
   estimatedDays: number | null;
   actor: TimelineActor;
   assignedByUserId?: string | null;
+  /** The case was opened in this transaction: no device is at any lab yet. */
+  newCase?: boolean;
   now: Date;
 }
 
@@ -88,9 +90,19 @@ export async function acceptInTransaction(
   referral: Referral,
   offer: LabOffer,
   lab: { id: string; name: string },
-  how: { actor: TimelineActor; rule?: AutoAcceptRule; now: Date },
+  how: { actor: TimelineActor; rule?: AutoAcceptRule; now: Date; /** Opened in this transaction: no transfer to look for. */ newCase?: boolean },
 ): Promise<void> {
   const auto = how.rule !== undefined;
+  // A case declined after arrival moves lab to lab: the lab holding the device ships it on, not the shop.
+  // (Read with SQL, not an import: receiving builds on routing.)
+  const fromLab: string | null = how.newCase
+    ? null
+    : ((
+        await manager.query(
+          `SELECT o.name FROM lab_transfers t JOIN organizations o ON o.id = t.from_lab_organization_id WHERE t.referral_id = $1 AND t.status = 'open' LIMIT 1`,
+          [referral.id],
+        )
+      )[0]?.name ?? null);
   await manager.update(LabOffer, offer.id, {
     status: 'accepted',
     respondedAt: how.now,
@@ -123,6 +135,7 @@ export async function acceptInTransaction(
       customerName: referral.customerName,
       labName: lab.name,
       url: caseUrl(ctx, referral.id),
+      fromLab,
     });
   }
   if (auto) {
@@ -174,7 +187,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
 
   const rule = matchingAutoAcceptRule(lab.autoAcceptRules, referral.triage.requiredSkills, terms.distanceKm);
   if (rule) {
-    await acceptInTransaction(ctx, manager, referral, offer, lab, { actor: autoAcceptActor, rule, now: terms.now });
+    await acceptInTransaction(ctx, manager, referral, offer, lab, { actor: autoAcceptActor, rule, now: terms.now, newCase: terms.newCase });
     return { outcome: 'accepted', offer, labName: lab.name };
   }
 
@@ -246,6 +259,7 @@ export async function routeAndOffer(
     estimatedDays: top.estimatedDays,
     actor: routingActor,
     now: options.now,
+    newCase: options.trigger === 'intake',
   });
   return { ...offered, snapshot };
 }

@@ -222,6 +222,24 @@ describe('releasing a hold (POST /api/lab/cases/:id/release-hold)', () => {
   });
 });
 
+describe('the shop’s e-mail when the next lab accepts a transferred case', () => {
+  it('says the lab holding the device ships it on, rather than asking the shop for a label', async () => {
+    const { staff, clerk, manager, referral, lab } = await scene();
+    await buyLabel(staff.token, referral.id);
+    await request(app).post('/api/lab/check-ins').set(auth(clerk.token)).send(intact(referral.id)).expect(201);
+    await request(app).post(`/api/lab/cases/${referral.id}/decline-after-arrival`).set(auth(manager.token)).send({ reason: 'no_capacity' }).expect(200);
+    const [offer] = await db.query(`SELECT id, lab_organization_id FROM lab_offers WHERE referral_id = $1 AND status = 'pending'`, [referral.id]);
+    expect(offer).toBeDefined();
+    const nextManager = await person(app, db, 'lab_manager', offer.lab_organization_id);
+    const accepted = await request(app).post(`/api/lab/offers/${offer.id}/accept`).set(auth(nextManager.token)).send({});
+    expect(accepted.status).toBe(200);
+    const mails = await outbox('referral_accepted', staff.user.email);
+    expect(mails).toHaveLength(1);
+    expect(mails[0]!.text_body).toContain(`${lab.name} ships the device on to`);
+    expect(mails[0]!.text_body).not.toContain('buy the prepaid label');
+  });
+});
+
 describe('outbound: returns and lab-to-lab transfers', () => {
   it('ships the device back to the customer, signed for and with a declared value; the case is returned at the first scan', async () => {
     const { staff, clerk, referral } = await scene();
