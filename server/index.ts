@@ -23,7 +23,10 @@ async function main() {
     if (stopping) return;
     stopping = true;
     logger.info({ signal }, 'shutting down');
-    server.close();
+    // Stop taking requests and let those in flight finish (up to 10 s) before the pool goes away.
+    const drained = new Promise<void>((resolve) => server.close(() => resolve()));
+    server.closeIdleConnections?.();
+    await Promise.race([drained, new Promise((resolve) => setTimeout(resolve, 10_000).unref())]);
     server.closeAllConnections?.();
     await workers?.stop();
     await db.destroy();

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
+import { namedQuery } from './named-query';
 
 // Rows that nothing reads back inside the transaction that writes them — routing snapshots, timeline
 // steps, outbox e-mail, partner events with their deliveries, job outbox rows — may be collected and written in one
@@ -154,7 +155,7 @@ const FLUSH_SQL = `
 
 async function flushAppends(manager: EntityManager, buffer: AppendBuffer): Promise<void> {
   if (buffer.size === 0) return;
-  await manager.query(FLUSH_SQL, [
+  await namedQuery(manager, 'appends.flush', FLUSH_SQL, [
     JSON.stringify(
       buffer.timeline.map((t) => ({
         id: t.id,

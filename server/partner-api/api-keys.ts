@@ -5,6 +5,7 @@ import { recordAudit } from '../audit';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { newOpaqueSecret, secretMatches, sha256 } from '../auth/tokens';
+import { namedQuery } from '../db/named-query';
 import { ApiKey } from './entities';
 
 /** Who a partner API request acts as: the key, on behalf of its partner organisation. */
@@ -123,7 +124,9 @@ export async function findActiveKey(ctx: ServiceContext, bearer: string): Promis
   const parsed = parseApiKey(bearer);
   if (!parsed) return null;
   const rows: { id: string; name: string; prefix: string; secret_hash: string; organization_id: string; organization_name: string; last_used_at: Date | null }[] =
-    await ctx.db.query(
+    await namedQuery(
+      ctx.db.manager,
+      'api-keys.find-active',
       `SELECT k.id, k.name, k.prefix, k.secret_hash, k.organization_id, o.name AS organization_name, k.last_used_at
        FROM api_keys k JOIN organizations o ON o.id = k.organization_id
        WHERE k.prefix = $1 AND k.revoked_at IS NULL AND o.active AND o.kind = 'partner'`,

@@ -2,6 +2,7 @@ import type { DataSource, EntityManager } from 'typeorm';
 import type { LatLon } from '@shared/domain/geo';
 import { prepareRoutingLabs, type PreparedRoutingLabs } from '@shared/domain/routing';
 import type { ExcludedDto } from '@shared/schemas/referrals';
+import { namedQuery } from '../db/named-query';
 import { LAB_OPEN_STATUSES, loadLabsWithVersion, toRoutingLab, type LoadedLab } from './labs';
 
 // The network's labs as routing reads them, held in memory between requests: loading and packing
@@ -49,7 +50,7 @@ function build(version: string, labs: LoadedLab[]): LabDirectory {
 
 /** The directory as of this statement, and each lab's open cases now. Reads the labs again only when they changed. */
 export async function readLabDirectory(manager: EntityManager): Promise<DirectoryReading> {
-  const [row]: { version: string; open_cases: Record<string, number> }[] = await manager.query(OPEN_CASES_SQL, [LAB_OPEN_STATUSES]);
+  const [row] = await namedQuery<{ version: string; open_cases: Record<string, number> }>(manager, 'routing.open-cases', OPEN_CASES_SQL, [LAB_OPEN_STATUSES]);
   const openCases = new Map(Object.entries(row.open_cases));
   const source = manager.connection;
   let directory = held.get(source);

@@ -1,6 +1,7 @@
 import { DateTime } from 'luxon';
 import type { EntityManager } from 'typeorm';
 import { labSkillLabels, mediaTypeLabels, type LabSkill } from '@shared/vocabulary';
+import { namedQuery } from '../db/named-query';
 import type { Referral } from '../referrals/entities';
 
 // Who hears about offers and acceptances, and how a case reads in a subject line.
@@ -17,19 +18,26 @@ export interface Recipient {
 const RECIPIENT = `u.id, u.email, u.name, u.status, u.notification_preferences`;
 
 export async function labManagers(manager: EntityManager, labId: string): Promise<Recipient[]> {
-  return manager.query(`SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role = 'lab_manager' AND u.status = 'active' ORDER BY u.email`, [labId]);
+  return namedQuery(manager, 'notify.lab-managers', `SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role = 'lab_manager' AND u.status = 'active' ORDER BY u.email`, [labId]);
 }
 
 export async function shopUsers(manager: EntityManager, partnerId: string): Promise<Recipient[]> {
-  return manager.query(
+  return namedQuery(
+    manager,
+    'notify.shop-users',
     `SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role IN ('partner_admin', 'partner_staff') AND u.status = 'active' ORDER BY u.email`,
     [partnerId],
   );
 }
 
 export async function networkAdmins(manager: EntityManager): Promise<Recipient[]> {
-  return manager.query(`SELECT ${RECIPIENT} FROM users u JOIN organizations o ON o.id = u.organization_id
-                        WHERE u.role = 'network_admin' AND u.status = 'active' AND o.active ORDER BY u.email`);
+  return namedQuery(
+    manager,
+    'notify.network-admins',
+    `SELECT ${RECIPIENT} FROM users u JOIN organizations o ON o.id = u.organization_id
+     WHERE u.role = 'network_admin' AND u.status = 'active' AND o.active ORDER BY u.email`,
+    [],
+  );
 }
 
 /** "Tue 3 Dec, 11:00 MST" in the lab's own time zone. */
