@@ -58,7 +58,17 @@ export interface SnapshotRow {
   excluded: unknown[];
 }
 
+/**
+ * A new row of an entity table (a case, an offer), held as the entity object itself: later changes in
+ * the same transaction are made to the object (see updateRow) and written with it.
+ */
+export interface EntityRow {
+  target: Function;
+  entity: object;
+}
+
 export class AppendBuffer {
+  readonly rows: EntityRow[] = [];
   readonly snapshots: SnapshotRow[] = [];
   readonly timeline: TimelineRow[] = [];
   readonly outbox: OutboxRow[] = [];
@@ -66,7 +76,7 @@ export class AppendBuffer {
   readonly jobs: JobRow[] = [];
 
   get size(): number {
-    return this.snapshots.length + this.timeline.length + this.outbox.length + this.events.length + this.jobs.length;
+    return this.rows.length + this.snapshots.length + this.timeline.length + this.outbox.length + this.events.length + this.jobs.length;
   }
 }
 
@@ -78,6 +88,30 @@ export function appendBufferOf(manager: EntityManager): AppendBuffer | undefined
 }
 
 export const newRowId = (): string => randomUUID();
+
+/**
+ * Inserts a new entity row, or, while appends are collected, keeps it to be written with them. Every
+ * column must have its value (ids, timestamps and defaults included): the batched write sets them all.
+ */
+export async function insertRow<T extends object>(manager: EntityManager, target: new () => T, entity: T): Promise<T> {
+  const buffer = appendBufferOf(manager);
+  if (!buffer) return manager.save(entity);
+  for (const column of manager.connection.getMetadata(target).columns) {
+    if (column.getEntityValue(entity) === undefined) throw new Error(`insertRow: ${target.name}.${column.propertyName} has no value`);
+  }
+  buffer.rows.push({ target, entity });
+  return entity;
+}
+
+/** Changes a row: in memory when it is a collected new row (it is written as it stands), else in the database. */
+export async function updateRow<T extends object>(manager: EntityManager, target: new () => T, entity: T & { id: string }, changes: Partial<T>): Promise<void> {
+  const buffer = appendBufferOf(manager);
+  if (buffer?.rows.some((r) => r.entity === entity)) {
+    Object.assign(entity, changes);
+    return;
+  }
+  await manager.update(target, entity.id, changes as never);
+}
 
 /**
  * Runs `work` in the caller's transaction with appends collected, then writes them all in one
@@ -102,6 +136,30 @@ export async function withBatchedAppends<T>(manager: EntityManager, work: () => 
 // the order the rows were recorded in, so a timeline's positions follow the order of its steps.
 const rows = (param: string, table: string) =>
   `jsonb_array_elements(${param}::jsonb) WITH ORDINALITY AS e(j, ord), LATERAL jsonb_populate_record(NULL::${table}, e.j) AS r`;
+
+const flushSqlCache = new WeakMap<object, Map<number, string>>();
+
+/** The batched write; the entity tables' column lists come from the TypeORM metadata, so it is built once per schema. */
+function flushSql(manager: EntityManager, targets: Function[]): string {
+  let byCount = flushSqlCache.get(manager.connection);
+  if (!byCount) flushSqlCache.set(manager.connection, (byCount = new Map()));
+  let sql = byCount.get(targets.length);
+  if (sql === undefined) byCount.set(targets.length, (sql = buildFlushSql(manager, targets)));
+  return sql;
+}
+
+function buildFlushSql(manager: EntityManager, targets: Function[]): string {
+  const parts = targets.map((target, i) => {
+    const meta = manager.connection.getMetadata(target);
+    const columns = meta.columns.map((c) => c.databaseName);
+    return `e${i} AS (
+    INSERT INTO ${meta.tableName} (${columns.join(', ')})
+    SELECT ${columns.map((c) => `r.${c}`).join(', ')} FROM jsonb_populate_recordset(NULL::${meta.tableName}, $${6 + i}::jsonb) AS r
+    RETURNING 1
+  ),`;
+  });
+  return FLUSH_SQL.replace('WITH\n', `WITH\n  ${parts.join('\n  ')}\n`);
+}
 
 const FLUSH_SQL = `
   WITH
@@ -153,9 +211,28 @@ const FLUSH_SQL = `
   SELECT (SELECT count(*) FROM rs)::int AS snapshots, (SELECT count(*) FROM tl)::int AS timeline, (SELECT count(*) FROM ob)::int AS outbox,
          (SELECT count(*) FROM ev)::int AS events, (SELECT count(*) FROM dl)::int AS deliveries, (SELECT count(*) FROM jb)::int AS jobs`;
 
+/** The entity tables collected rows may go to, in a fixed order so that the statement's text never changes. */
+const entityTargets: Function[] = [];
+
+/** Registers an entity table for collected rows (done once by the module that owns it). */
+export function collectRowsOf(target: Function): void {
+  if (!entityTargets.includes(target)) entityTargets.push(target);
+}
+
+function rowJson(manager: EntityManager, target: Function, entity: object): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const column of manager.connection.getMetadata(target).columns) {
+    const value = column.getEntityValue(entity);
+    out[column.databaseName] = value instanceof Date ? value.toISOString() : value;
+  }
+  return out;
+}
+
 async function flushAppends(manager: EntityManager, buffer: AppendBuffer): Promise<void> {
   if (buffer.size === 0) return;
-  await namedQuery(manager, 'appends.flush', FLUSH_SQL, [
+  for (const row of buffer.rows) if (!entityTargets.includes(row.target)) throw new Error(`collected rows of ${row.target.name} are not registered (collectRowsOf)`);
+  const entityParams = entityTargets.map((target) => JSON.stringify(buffer.rows.filter((r) => r.target === target).map((r) => rowJson(manager, target, r.entity))));
+  await namedQuery(manager, `appends.flush.${entityTargets.length}`, flushSql(manager, entityTargets), [
     JSON.stringify(
       buffer.timeline.map((t) => ({
         id: t.id,
@@ -202,5 +279,6 @@ async function flushAppends(manager: EntityManager, buffer: AppendBuffer): Promi
         excluded: r.excluded,
       })),
     ),
+    ...entityParams,
   ]);
 }

@@ -15,7 +15,7 @@ import {
 import type { AttentionItemDto } from '@shared/schemas/labs';
 import { caseStatusLabels, labSkillLabels, type CaseStatus } from '@shared/vocabulary';
 import { recordAudit } from '../audit';
-import { withBatchedAppends } from '../db/appends';
+import { collectRowsOf, insertRow, newRowId, withBatchedAppends } from '../db/appends';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
@@ -195,6 +195,8 @@ export async function createReferral(
   return { ...dto, photos: [], shipments: [], amounts: null };
 }
 
+collectRowsOf(Referral);
+
 /** What openReferral tells its caller: an earlier case answered again, or the case it just opened. */
 export interface OpenedReferral {
   replayed: boolean;
@@ -241,8 +243,12 @@ export async function openReferral(
       }
     : null;
 
-  const referral = await manager.save(
+  // Written with intake's other rows at the end (server/db/appends.ts), or at once outside intake.
+  const referral = await insertRow(
+    manager,
+    Referral,
     manager.create(Referral, {
+      id: newRowId(),
       referenceNumber: n,
       reference: makeReference(BigInt(n)),
       partnerOrganizationId: shop.id,
@@ -282,6 +288,7 @@ export async function openReferral(
       idempotencyHash: hash,
       cancelledAt: null,
       createdAt: now,
+      updatedAt: now,
     }),
   );
 

@@ -4,7 +4,7 @@ import { geodesicDistanceKm } from '@shared/domain/geo';
 import { declineReasonLabels, type DeclineOfferInput } from '@shared/schemas/referrals';
 import type { AutoAcceptRule } from '@shared/schemas/labs';
 import type { LabSkill } from '@shared/vocabulary';
-import { appendBufferOf, newRowId } from '../db/appends';
+import { appendBufferOf, collectRowsOf, insertRow, newRowId, updateRow } from '../db/appends';
 import { enqueueJob, queues } from '../jobs';
 import { AppError } from '../lib/errors';
 import type { ServiceContext } from '../lib/context';
@@ -19,6 +19,8 @@ import { autoAcceptActor, deadlineActor, recordTimeline, routingActor, type Time
 // Moving a case between labs: rank, offer to the best candidate (or accept at once by the lab's rule),
 // and when an offer is declined or runs out, offer to the next. Every function here runs inside the
 // caller's transaction with the case row locked, and writes its timeline, e-mails and jobs there too.
+
+collectRowsOf(LabOffer);
 
 export type DispatchOutcome = (
   | { outcome: 'offered'; offer: LabOffer; labName: string }
@@ -103,7 +105,7 @@ export async function acceptInTransaction(
           [referral.id],
         )
       )[0]?.name ?? null);
-  await manager.update(LabOffer, offer.id, {
+  await updateRow(manager, LabOffer, offer, {
     status: 'accepted',
     respondedAt: how.now,
     respondedByUserId: how.actor.type === 'user' ? (how.actor.id ?? null) : null,
@@ -117,7 +119,7 @@ export async function acceptInTransaction(
     respondedByName: how.actor.name,
     autoAccepted: auto,
   });
-  await manager.update(Referral, referral.id, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
+  await updateRow(manager, Referral, referral, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
   Object.assign(referral, { status: 'accepted', labOrganizationId: lab.id, attentionReason: null });
   await recordTimeline(manager, referral, {
     kind: 'offer_accepted',
@@ -157,8 +159,11 @@ export async function acceptInTransaction(
 /** Offers the case to one lab until its deadline, or accepts it at once when the lab's rule says so. */
 export async function makeOffer(ctx: ServiceContext, manager: EntityManager, referral: Referral, lab: LoadedLab, terms: OfferTerms): Promise<DispatchOutcome> {
   const deadline = offerDeadline(terms.now, lab.calendar, ctx.config.offerResponseBusinessHours);
-  const offer = await manager.save(
+  const offer = await insertRow(
+    manager,
+    LabOffer,
     manager.create(LabOffer, {
+      id: newRowId(),
       referralId: referral.id,
       labOrganizationId: lab.id,
       routingSnapshotId: terms.snapshotId,
@@ -175,6 +180,8 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
       declineReason: null,
       declineNote: null,
       assignedByUserId: terms.assignedByUserId ?? null,
+      createdAt: terms.now,
+      updatedAt: terms.now,
     }),
   );
   await recordTimeline(manager, referral, {
@@ -191,7 +198,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
     return { outcome: 'accepted', offer, labName: lab.name };
   }
 
-  await manager.update(Referral, referral.id, { status: 'offered', attentionReason: null });
+  await updateRow(manager, Referral, referral, { status: 'offered', attentionReason: null });
   Object.assign(referral, { status: 'offered', attentionReason: null });
   // The deadline job commits with the offer (job outbox), so an offer never lacks its expiry.
   await enqueueJob(manager, queues.offerExpire, { offerId: offer.id }, { startAfter: deadline, singletonKey: offer.id });
@@ -212,7 +219,7 @@ export async function makeOffer(ctx: ServiceContext, manager: EntityManager, ref
 }
 
 async function markNeedsAttention(ctx: ServiceContext, manager: EntityManager, referral: Referral, reason: string, now: Date): Promise<DispatchOutcome> {
-  await manager.update(Referral, referral.id, { status: 'needs_attention', attentionReason: reason });
+  await updateRow(manager, Referral, referral, { status: 'needs_attention', attentionReason: reason });
   Object.assign(referral, { status: 'needs_attention', attentionReason: reason });
   await recordTimeline(manager, referral, { kind: 'needs_attention', summary: `Waiting for the network to route it by hand. ${reason}`, actor: routingActor, at: now, details: { reason } });
   const shop = await partnerName(manager, referral);
