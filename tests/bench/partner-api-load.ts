@@ -99,6 +99,8 @@ export async function benchPartnerApiLoad(): Promise<void> {
       }
       await run(`http://127.0.0.1:${port}/api/v1/referrals`, { method: 'POST', headers, body, duration: 2, connections: 10 }); // warm-up
       results.push([`  POST /api/v1/referrals, ${processes === 1 ? 'one app process' : `${processes} app processes (WEB_CONCURRENCY)`}`, await run(`http://127.0.0.1:${port}/api/v1/referrals`, { method: 'POST', headers, body })]);
+      // autocannon drops its connections at the end; let the requests still being handled finish first.
+      await new Promise((r) => setTimeout(r, 2000));
       server.kill('SIGTERM');
       await new Promise((r) => server!.once('exit', r));
       server = undefined;
