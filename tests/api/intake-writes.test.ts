@@ -3,7 +3,8 @@ import pg from 'pg';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { loadConfig } from '../../server/config';
-import { appendBufferOf, withBatchedAppends } from '../../server/db/appends';
+import { appendBufferOf, insertRow, updateRow, withBatchedAppends } from '../../server/db/appends';
+import { LabOffer } from '../../server/routing';
 import { createDataSource, runMigrations } from '../../server/db/data-source';
 import { createReferral, getReferral } from '../../server/referrals';
 import { enqueueEmail } from '../../server/notifications';
@@ -123,6 +124,28 @@ describe('withBatchedAppends', () => {
     expect(await timelineCount(db, kase.id)).toBe(before);
     const [{ n }] = await db.query(`SELECT count(*)::int AS n FROM outbox_messages WHERE recipient = 'doomed@test.example'`);
     expect(n).toBe(0);
+  });
+
+  it('holds a new offer row with the batch, applies changes to it in memory, and refuses a row with a column left unset', async () => {
+    const kase = await someCase();
+    const [lab] = await db.query(`SELECT organization_id AS id FROM lab_profiles LIMIT 1`);
+    const now = new Date();
+    const fields = {
+      referralId: kase.id, labOrganizationId: lab.id, routingSnapshotId: null, status: 'withdrawn' as const, rank: null, distanceKm: 10, estimatedDays: 5,
+      offeredAt: now, deadline: new Date(now.getTime() + 3_600_000), respondedAt: null, respondedByUserId: null, respondedByName: null, autoAccepted: false, declineReason: null, declineNote: null,
+      assignedByUserId: null, createdAt: now, updatedAt: now,
+    };
+    const id = crypto.randomUUID();
+    await db.transaction(async (manager) => {
+      await withBatchedAppends(manager, async () => {
+        const offer = await insertRow(manager, LabOffer, manager.create(LabOffer, { id, ...fields }));
+        await updateRow(manager, LabOffer, offer, { declineNote: 'changed before it was written' });
+        expect(await manager.query(`SELECT id FROM lab_offers WHERE id = $1`, [id])).toEqual([]);
+        await expect(insertRow(manager, LabOffer, manager.create(LabOffer, { ...fields }))).rejects.toThrow(/LabOffer\.id has no value/);
+      });
+    });
+    const [row] = await db.query(`SELECT status, decline_note FROM lab_offers WHERE id = $1`, [id]);
+    expect(row).toEqual({ status: 'withdrawn', decline_note: 'changed before it was written' });
   });
 
   it('writes at once outside it, and refuses to collect outside a transaction', async () => {
