@@ -56,7 +56,7 @@ export function partnerApiRoutes(ctx: ServiceContext, storage: BlobStorage = sto
     const key = apiKeyOf(req);
     const created = await referrals.createReferral(
       ctx,
-      { partnerOrganizationId: key.organizationId, actor: actorOfKey(key) },
+      { partnerOrganizationId: key.organizationId, actor: actorOfKey(key), shop: key.organization },
       withPartnerConsent(req.body),
       { idempotencyKey: res.locals.idempotency?.key },
     );

@@ -15,7 +15,7 @@ import {
 import type { AttentionItemDto } from '@shared/schemas/labs';
 import { caseStatusLabels, labSkillLabels, type CaseStatus } from '@shared/vocabulary';
 import { recordAudit } from '../audit';
-import { collectRowsOf, insertRow, newRowId, withBatchedAppends } from '../db/appends';
+import { collectRowsOf, insertRow, newRowId, withBatchedAppends, withBatchedWrite } from '../db/appends';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
@@ -166,16 +166,19 @@ async function shopFor(manager: EntityManager, partnerOrganizationId: string): P
 
 export async function createReferral(
   ctx: ServiceContext,
-  who: { partnerOrganizationId: string; actor: ReferralActor },
+  who: { partnerOrganizationId: string; actor: ReferralActor; shop?: Organization },
   rawInput: unknown,
   options: { idempotencyKey?: string } = {},
 ): Promise<ReferralDto> {
   const input = parseInput(referralInput, rawInput);
   // Intake writes five timeline steps, e-mails and partner events: collected and written in one statement.
   const opened: OpenedReferral = { replayed: false };
-  const { result: referralId, appended } = await ctx.db.transaction((manager) =>
-    withBatchedAppends(manager, () => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened })),
-  );
+  const open = (manager: EntityManager) => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened });
+  // With an idempotency key the case is opened under a lock on that key, so in a transaction; without
+  // one, intake only reads until its single batched write, and needs none.
+  const { result: referralId, appended } = options.idempotencyKey
+    ? await ctx.db.transaction((manager) => withBatchedAppends(manager, () => open(manager)))
+    : await withBatchedWrite(ctx.db, open);
   if (opened.replayed || !opened.intake) return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId);
   // Everything the answer shows was written just now, in this transaction: answer from it rather than
   // reading it all back (a test checks the answer equals a later read).
@@ -210,7 +213,7 @@ export interface OpenedReferral {
 export async function openReferral(
   ctx: ServiceContext,
   manager: EntityManager,
-  who: { partnerOrganizationId: string; actor: ReferralActor },
+  who: { partnerOrganizationId: string; actor: ReferralActor; shop?: Organization },
   input: ReferralInputParsed,
   options: { idempotencyKey?: string; now: Date; opened?: OpenedReferral },
 ): Promise<string> {
@@ -229,7 +232,8 @@ export async function openReferral(
       return existing.id;
     }
   }
-  const shop = await shopFor(manager, who.partnerOrganizationId);
+  // A partner API key brings its shop along (read with the key, active); the app's forms do not.
+  const shop = who.shop?.id === who.partnerOrganizationId ? who.shop : await shopFor(manager, who.partnerOrganizationId);
   const origin = resolveOrigin(input.origin, shop);
   const triaged = runTriage(input);
   const n = await nextReferralNumber(manager);

@@ -3,7 +3,7 @@ import pg from 'pg';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { loadConfig } from '../../server/config';
-import { appendBufferOf, insertRow, updateRow, withBatchedAppends } from '../../server/db/appends';
+import { appendBufferOf, insertRow, updateRow, withBatchedAppends, withBatchedWrite } from '../../server/db/appends';
 import { LabOffer } from '../../server/routing';
 import { createDataSource, runMigrations } from '../../server/db/data-source';
 import { createReferral, getReferral } from '../../server/referrals';
@@ -157,6 +157,87 @@ describe('withBatchedAppends', () => {
       expect(await timelineCount(manager, kase.id)).toBe(before + 1);
     });
     await expect(withBatchedAppends(db.manager, async () => undefined)).rejects.toThrow(/needs a transaction/);
+  });
+});
+
+describe('withBatchedWrite (intake without an idempotency key)', () => {
+  const step = (kind: string) => ({ kind, summary: `Step ${kind}`, actor: { type: 'system' as const, name: 'test' } });
+
+  // Every statement the pg driver is handed while `work` runs (TypeORM, named statements, pool queries).
+  async function statementsOf(work: () => Promise<unknown>): Promise<string[]> {
+    const seen: string[] = [];
+    const original = pg.Client.prototype.query;
+    pg.Client.prototype.query = function (this: pg.Client, ...args: unknown[]) {
+      const first = args[0] as string | { text: string };
+      seen.push((typeof first === 'string' ? first : first.text).trim());
+      return (original as (...a: unknown[]) => unknown).apply(this, args);
+    } as typeof original;
+    try {
+      await work();
+    } finally {
+      pg.Client.prototype.query = original;
+    }
+    return seen;
+  }
+
+  it('opens a case with reads and one write, and no BEGIN or COMMIT', async () => {
+    const { key } = await shop([]);
+    // The key's first use writes its last_used_at (at most once a minute); that is not intake's write.
+    expect((await request(app).get('/api/v1/me').set('Authorization', key)).status).toBe(200);
+    let created: request.Response | undefined;
+    const statements = await statementsOf(async () => {
+      created = await request(app).post('/api/v1/referrals').set('Authorization', key).send(body);
+    });
+    expect(created!.status).toBe(201);
+    expect(statements.filter((s) => /^(BEGIN|START TRANSACTION|COMMIT|ROLLBACK)\b/i.test(s))).toEqual([]);
+    const writes = statements.filter((s) => !/^SELECT\b/i.test(s));
+    expect(writes).toHaveLength(1);
+    expect(writes[0]).toMatch(/INSERT INTO referrals/);
+    // The batched write is the last statement intake sends.
+    expect(statements.at(-1)).toBe(writes[0]);
+  });
+
+  it('refuses a write, a locking read or a transaction before the batched statement, and writes nothing', async () => {
+    const { key } = await shop([]);
+    const kase = (await request(app).post('/api/v1/referrals').set('Authorization', key).send(body)).body as { id: string };
+    const count = async () => (await db.query(`SELECT count(*)::int AS n FROM referral_timeline WHERE referral_id = $1`, [kase.id]))[0].n as number;
+    const before = await count();
+    const attempts: ((m: import('typeorm').EntityManager) => Promise<unknown>)[] = [
+      (m) => m.query(`UPDATE referrals SET description = 'sneaked in' WHERE id = $1`, [kase.id]),
+      (m) => m.query(`SELECT id FROM referrals WHERE id = $1 FOR UPDATE`, [kase.id]),
+      (m) => m.query(`SELECT pg_advisory_xact_lock(1)`),
+      (m) => m.transaction(async () => undefined),
+      (m) => m.update(LabOffer, { referralId: kase.id }, { declineNote: 'sneaked in' }),
+    ];
+    for (const attempt of attempts) {
+      await expect(
+        withBatchedWrite(db, async (manager) => {
+          await recordTimeline(manager, kase.id, step('collected_first'));
+          expect(appendBufferOf(manager)?.size).toBe(1);
+          await attempt(manager);
+        }),
+      ).rejects.toThrow(/Only plain reads may run before the batched write/);
+    }
+    expect(await count()).toBe(before);
+    const [row] = await db.query(`SELECT description FROM referrals WHERE id = $1`, [kase.id]);
+    expect(row.description).not.toBe('sneaked in');
+  });
+
+  it('writes what was collected in one statement once the work is done', async () => {
+    const { key } = await shop([]);
+    const kase = (await request(app).post('/api/v1/referrals').set('Authorization', key).send(body)).body as { id: string };
+    const before = (await db.query(`SELECT count(*)::int AS n FROM referral_timeline WHERE referral_id = $1`, [kase.id]))[0].n as number;
+    const statements = await statementsOf(() =>
+      withBatchedWrite(db, async (manager) => {
+        await manager.query(`SELECT 1`);
+        await recordTimeline(manager, kase.id, step('note_a'));
+        await recordTimeline(manager, kase.id, step('note_b'));
+      }),
+    );
+    expect(statements.filter((s) => !/^SELECT\b/i.test(s))).toHaveLength(1);
+    const rows: { kind: string }[] = await db.query(`SELECT kind FROM referral_timeline WHERE referral_id = $1 ORDER BY position DESC LIMIT 2`, [kase.id]);
+    expect(rows.map((r) => r.kind)).toEqual(['note_b', 'note_a']);
+    expect((await db.query(`SELECT count(*)::int AS n FROM referral_timeline WHERE referral_id = $1`, [kase.id]))[0].n).toBe(before + 2);
   });
 });
 
