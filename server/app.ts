@@ -4,10 +4,10 @@ import path from 'node:path';
 import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import type { DataSource } from 'typeorm';
 import { authRoutes, createGuard } from './auth';
 import type { Config } from './config';
+import { accessLog } from './lib/access-log';
 import { errorHandler, notFoundHandler } from './lib/errors';
 import { logger, requestContext } from './lib/logger';
 import { organizationRoutes } from './organizations';
@@ -49,16 +49,8 @@ export function createApp({ config, db }: AppDeps): Express {
     res.setHeader('X-Request-Id', requestId);
     requestContext.run({ requestId }, next);
   });
-  app.use(
-    pinoHttp({
-      logger,
-      genReqId: (_req, res) => String(res.getHeader('X-Request-Id')),
-      autoLogging: { ignore: (req) => req.url === '/api/health' },
-      quietReqLogger: true,
-      // The customer's private page carries its token in the path; the log keeps the path without it.
-      serializers: { req: (req: { url: string }) => ({ ...req, url: redactCustomerToken(req.url) }) },
-    }),
-  );
+  // The customer's private page carries its token in the path; the log keeps the path without it.
+  app.use(accessLog(logger, { ignore: (req) => req.url === '/api/health', redactUrl: redactCustomerToken }));
   app.use(
     helmet({
       contentSecurityPolicy: {

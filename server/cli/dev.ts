@@ -1,6 +1,6 @@
 import { execFileSync, spawn } from 'node:child_process';
 import path from 'node:path';
-import { defaultPorts, fakes, ProcessGroup, stackEnv, startDatabase } from './lib/stack';
+import { defaultPorts, fakes, ProcessGroup, serverNodeOptions, stackEnv, startDatabase } from './lib/stack';
 
 // `npm run dev`: like `npm start`, but the server restarts on change and Vite serves the client
 // with hot reload, proxying /api to the server.
@@ -11,7 +11,7 @@ execFileSync(process.execPath, [path.join('node_modules', 'tsx', 'dist', 'cli.mj
 
 const group = new ProcessGroup((name, code) => console.error(`[dev] ${name} exited (code ${code})`));
 for (const fake of fakes) group.spawnTsx(`${fake.name} fake`, [fake.main], env);
-group.spawnTsx('server', ['watch', '--clear-screen=false', 'server/index.ts'], env);
+group.spawnTsx('server', ['watch', '--clear-screen=false', 'server/index.ts'], { ...env, NODE_OPTIONS: serverNodeOptions(process.env.NODE_OPTIONS) });
 const vite = spawn(process.execPath, [path.join('node_modules', 'vite', 'bin', 'vite.js')], { stdio: 'inherit', env: { ...process.env, ...env } });
 
 const stop = async () => {

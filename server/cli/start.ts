@@ -1,7 +1,7 @@
 import { execFileSync } from 'node:child_process';
 import path from 'node:path';
 import { buildClientIfStale } from './lib/build';
-import { defaultPorts, fakes, ProcessGroup, stackEnv, startDatabase, waitForHttp } from './lib/stack';
+import { defaultPorts, fakes, ProcessGroup, serverNodeOptions, stackEnv, startDatabase, waitForHttp } from './lib/stack';
 
 // `npm start`: PostgreSQL, migrations and demo data, the fakes, the built client and the server.
 const ports = defaultPorts(process.env);
@@ -33,7 +33,7 @@ group = new ProcessGroup((name, code) => {
   void stop(1);
 });
 for (const fake of fakes) group.spawnTsx(`${fake.name} fake`, [fake.main], env);
-group.spawnTsx('server', ['server/index.ts'], env);
+group.spawnTsx('server', ['server/index.ts'], { ...env, NODE_OPTIONS: serverNodeOptions(process.env.NODE_OPTIONS) });
 await waitForHttp(`http://127.0.0.1:${ports.app}/api/health`);
 
 console.log(`

@@ -778,6 +778,23 @@ describe('routeCase: prepared labs and fresh open-case counts', () => {
     expect(full.excluded).toEqual([{ labId: 'cin', labName: 'Lab cin', reasons: [{ code: 'queue_full', message: 'Queue is full (40 open of 40).' }] }]);
   });
 
+  it('one prepared index reads each lab’s date afresh across its midnight, back and forth, and on a DST change', () => {
+    const cert = certificate('2025-09-02', 900); // due for re-test by 2026-03-02
+    const prepared = prepareRoutingLabs([lab({ id: 'den', timeZone: 'America/Denver', cleanAirCertificate: cert })]);
+    const at = (iso: string) => routeCase(clickingDrive, prepared, { asOf: new Date(iso) });
+    // Denver is UTC−7 in March before the change: 2 March ends at 2026-03-03T07:00Z.
+    expect(at('2026-03-03T06:59:59.999Z').ranked).toHaveLength(1);
+    expect(at('2026-03-03T07:00:00.000Z').excluded[0].reasons[0].code).toBe('clean_air_expired');
+    expect(at('2026-03-02T12:00:00Z').ranked).toHaveLength(1); // an earlier instant after a later one
+    // 8 March 2026 is the US change to daylight time (a 23-hour day); a certificate due 2026-03-08 ends at
+    // 2026-03-09T06:00Z, i.e. midnight MDT (UTC−6).
+    const dst = prepareRoutingLabs([lab({ id: 'den', timeZone: 'America/Denver', cleanAirCertificate: certificate('2025-09-08', 900) })]);
+    const onDst = (iso: string) => routeCase(clickingDrive, dst, { asOf: new Date(iso) });
+    expect(onDst('2026-03-08T12:00:00Z').ranked).toHaveLength(1);
+    expect(onDst('2026-03-09T05:59:59Z').ranked).toHaveLength(1);
+    expect(onDst('2026-03-09T06:00:00Z').excluded[0].reasons[0].code).toBe('clean_air_expired');
+  });
+
   it('a malformed count in the map makes that lab’s profile incomplete for this case only', () => {
     const prepared = prepareRoutingLabs([lab({ id: 'cin' })]);
     expect(routeCase(clickingDrive, prepared, { asOf, openCases: new Map([['cin', -1]]) }).excluded[0].reasons).toEqual([

@@ -304,6 +304,18 @@ interface ProfileProblemText {
  * typed arrays indexed by the lab's position in the input. Build with prepareRoutingLabs; rebuild when a
  * lab's profile changes (open-case counts can instead come fresh with each call, see RoutingOptions).
  */
+/** The calendar date in zone `z` at instant `t` (null for a zone that is not an IANA zone), remembered until the zone's next midnight. */
+function localDateIn(index: PreparedRoutingLabs, z: number, t: number): string | null {
+  const known = index.localDays[z];
+  if (known && t >= known.from && t < known.until) return known.date;
+  const local = DateTime.fromMillis(t, { zone: index.timeZones[z] });
+  const day = local.isValid
+    ? { from: local.startOf('day').toMillis(), until: local.endOf('day').toMillis() + 1, date: local.toISODate() as string }
+    : { from: -Infinity, until: Infinity, date: null };
+  index.localDays[z] = day;
+  return day.date;
+}
+
 class PreparedRoutingLabs {
   /** Number of labs. */
   readonly size: number;
@@ -314,6 +326,11 @@ class PreparedRoutingLabs {
   /** Index into timeZones; labs share few zones, so "today" is read once per zone and case. */
   readonly zoneOf: Uint32Array;
   readonly timeZones: string[] = [];
+  /**
+   * Per zone, the local date last read and the instants [from, until) for which it holds: a zone's
+   * date changes only at its midnight, and reading it through Intl is the dearest step of a ranking.
+   */
+  readonly localDays: ({ from: number; until: number; date: string | null } | undefined)[] = [];
   readonly active: Uint8Array;
   readonly healthDataAgreement: Uint8Array;
   readonly mediaMask: Uint32Array;
@@ -703,11 +720,8 @@ export function routeCase(kase: RoutingCase, labs: readonly RoutingLab[] | Prepa
   const shopLat = kase.shopLocation.lat;
   const shopLon = kase.shopLocation.lon;
 
-  const now = DateTime.fromJSDate(options.asOf);
-  const todayByZone: (string | null)[] = index.timeZones.map((zone) => {
-    const local = now.setZone(zone);
-    return local.isValid ? (local.toISODate() as string) : null;
-  });
+  const asOf = options.asOf.getTime();
+  const todayByZone: (string | null)[] = index.timeZones.map((_zone, z) => localDateIn(index, z, asOf));
 
   const { ids, names, zoneOf, active, healthDataAgreement, mediaMask, skillMask, badTurnaroundMask } = index;
   const { openCases, openCasesInvalid, queueCapacity, weeklyThroughput, profileInvalid, certificateKind, certificate } = index;

@@ -7,6 +7,7 @@ import autocannon from 'autocannon';
 import express from 'express';
 import pg from 'pg';
 import { ensureCluster, ensureDatabase } from '../../server/cli/lib/postgres';
+import { serverNodeOptions } from '../../server/cli/lib/stack';
 import { demoApiKeyValues } from '../../server/db/seed/demo-api-keys';
 
 // POST /api/v1/referrals under load (issue target: ≥ 300 requests/s with p99 ≤ 150 ms, 50 connections
@@ -84,7 +85,9 @@ export async function benchPartnerApiLoad(): Promise<void> {
           RUN_WORKERS: 'false',
           WEB_CONCURRENCY: String(processes),
           PARTNER_API_RATE_LIMIT_PER_MINUTE: '1000000',
-          DATABASE_POOL_SIZE: String(Math.ceil(20 / processes)),
+          // The default pool of 10, shared between the processes.
+          DATABASE_POOL_SIZE: String(Math.ceil(10 / processes)),
+          NODE_OPTIONS: serverNodeOptions(process.env.NODE_OPTIONS),
         },
         stdio: ['ignore', 'inherit', 'inherit'],
       });

@@ -5,6 +5,16 @@ import { ensureCluster, ensureDatabase, type Cluster } from './postgres';
 
 const tsx = path.join('node_modules', 'tsx', 'dist', 'cli.mjs');
 
+/**
+ * Node options for the app server. A larger young generation (V8 default: 16 MB semi-spaces) means
+ * fewer scavenges while many requests are in flight; on the partner API's intake under load this
+ * gave about a sixth more requests a second (`npm run bench`), for some 100 MB more memory.
+ */
+export const SERVER_NODE_OPTIONS = '--max-semi-space-size=32';
+
+/** NODE_OPTIONS for a server process: the caller's own, then ours. */
+export const serverNodeOptions = (existing: string | undefined): string => [existing, SERVER_NODE_OPTIONS].filter(Boolean).join(' ');
+
 export interface StackPorts {
   app: number;
   postgres: number;
