@@ -81,13 +81,14 @@ export function createApp({ config, db }: AppDeps): Express {
       res.status(503).json({ status: 'degraded', db: 'unreachable' });
     }
   });
+  // The partner API first: its requests then skip the app's routers (measured on intake under load).
+  app.use('/api/v1', partnerApiRoutes(ctx));
+  app.use('/api/v1', shippingPartnerApiRoutes(ctx));
   app.use('/api/auth', authRoutes(ctx, guard));
   app.use('/api', organizationRoutes(ctx, guard));
   app.use('/api', referralRoutes(ctx, guard));
   app.use('/api', routingRoutes(ctx, guard));
   app.use('/api', apiKeyRoutes(ctx, guard));
-  app.use('/api/v1', partnerApiRoutes(ctx));
-  app.use('/api/v1', shippingPartnerApiRoutes(ctx));
   app.use('/api', photoRoutes(ctx, guard));
   app.use('/api', webhookRoutes(ctx, guard));
   app.use('/api', labWorkRoutes(ctx, guard));
