@@ -2,11 +2,10 @@ import AxeBuilder from '@axe-core/playwright';
 import pg from 'pg';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import { makeReference } from '@shared/domain/reference';
-import { triage } from '@shared/domain/triage';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
 import { unique, waitForMail } from '../support/api';
 import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { insertQuillmarkCase } from '../support/e2e-cases';
 
 // A case through the lab's bench and the customer's page: the technician records the evaluation, the lab
 // manager sends the quote, the customer opens the e-mailed link, approves and pays on the payment
@@ -34,38 +33,15 @@ afterAll(async () => {
  * as intake, routing and receiving leave it (each tested in its own suite).
  */
 async function receivedCase(customerEmail: string): Promise<{ id: string; reference: string }> {
-  const orgs = await db.query(`SELECT id, slug, address_line1, city, region, postal_code, lat, lon FROM organizations WHERE slug IN ('juniper-lane', 'quillmark')`);
-  const shop = orgs.rows.find((o) => o.slug === 'juniper-lane');
-  const lab = orgs.rows.find((o) => o.slug === 'quillmark');
-  const { rows: [{ n }] } = await db.query(`SELECT nextval('referral_number_seq')::text AS n`);
-  const stored = { ...triage({ mediaType: 'hdd_3_5', symptoms: ['clicking'], sensitivity: [] }), battery: null };
-  const { rows: [row] } = await db.query(
-    `INSERT INTO referrals (reference_number, reference, partner_organization_id, status, customer_name, customer_email, media_type, capacity_gb,
-       device_make, device_model, symptoms, priorities, origin_line1, origin_city, origin_region, origin_postal_code, origin_country, origin_lat,
-       origin_lon, triage, lab_organization_id, created_by_type, created_by_id, created_by_name)
-     VALUES ($1, $2, $3, 'received', 'Odile Marchetti', $4, 'hdd_3_5', 2000, 'Examplar', 'Spinwell 2T', '{clicking}', $5,
-       $6, $7, $8, $9, 'US', $10, $11, $12, $13, 'user', 'e2e', 'Theo Brandt') RETURNING id, reference`,
-    [
-      n,
-      makeReference(BigInt(n)),
-      shop.id,
-      customerEmail,
-      JSON.stringify([{ category: 'photos', note: 'Photos of the garden, 2020–2024' }, { category: 'documents', note: null }]),
-      shop.address_line1,
-      shop.city,
-      shop.region,
-      shop.postal_code,
-      shop.lat,
-      shop.lon,
-      JSON.stringify(stored),
-      lab.id,
-    ],
-  );
-  await db.query(
-    `INSERT INTO lab_offers (referral_id, lab_organization_id, status, offered_at, deadline, responded_at, responded_by_name, estimated_days)
-     VALUES ($1, $2, 'accepted', now() - interval '3 days', now() - interval '3 days' + interval '4 hours', now() - interval '3 days', 'Rosa Quintero', 6)`,
-    [row.id, lab.id],
-  );
+  const row = await insertQuillmarkCase(db, {
+    status: 'received',
+    customerName: 'Odile Marchetti',
+    customerEmail,
+    device: { capacityGb: 2000, make: 'Examplar', model: 'Spinwell 2T' },
+    priorities: [{ category: 'photos', note: 'Photos of the garden, 2020–2024' }, { category: 'documents', note: null }],
+    acceptedDaysAgo: 3,
+    estimatedDays: 6,
+  });
   await db.query(
     `INSERT INTO referral_timeline (referral_id, at, kind, summary, actor_type, actor_name, details)
      VALUES ($1, now() - interval '1 hour', 'checked_in', 'Box checked in at Quillmark Recovery Lab by Lee Varga: box intact.', 'user', 'Lee Varga', '{"outcome":"received"}')`,

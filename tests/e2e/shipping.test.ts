@@ -2,10 +2,9 @@ import { readFile } from 'node:fs/promises';
 import pg from 'pg';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import { makeReference } from '@shared/domain/reference';
-import { triage } from '@shared/domain/triage';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
 import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { insertQuillmarkCase } from '../support/e2e-cases';
 
 // A box from the counter to the lab's bench: the shop buys the prepaid label for an accepted case and
 // downloads it, the shipping fake's clock runs until the carrier delivers it, the lab's shipping clerk
@@ -30,25 +29,12 @@ afterAll(async () => {
 
 /** A case Quillmark has accepted from Juniper Lane, as intake and routing leave it (tested in their own suites). */
 async function acceptedCase(): Promise<{ id: string; reference: string }> {
-  const orgs = await db.query(`SELECT id, slug, address_line1, city, region, postal_code, lat, lon FROM organizations WHERE slug IN ('juniper-lane', 'quillmark')`);
-  const shop = orgs.rows.find((o) => o.slug === 'juniper-lane');
-  const lab = orgs.rows.find((o) => o.slug === 'quillmark');
-  const { rows: [{ n }] } = await db.query(`SELECT nextval('referral_number_seq')::text AS n`);
-  const stored = { ...triage({ mediaType: 'hdd_3_5', symptoms: ['clicking'], sensitivity: [] }), battery: null };
-  const { rows: [row] } = await db.query(
-    `INSERT INTO referrals (reference_number, reference, partner_organization_id, status, customer_name, customer_email, media_type, device_make,
-       device_model, symptoms, origin_line1, origin_city, origin_region, origin_postal_code, origin_country, origin_lat, origin_lon, triage,
-       lab_organization_id, created_by_type, created_by_id, created_by_name)
-     VALUES ($1, $2, $3, 'accepted', 'Odile Marchetti', 'odile.marchetti@customer.test', 'hdd_3_5', 'Examplar', 'Spinwell 4T', '{clicking}',
-       $4, $5, $6, $7, 'US', $8, $9, $10, $11, 'user', 'e2e', 'Theo Brandt') RETURNING id, reference`,
-    [n, makeReference(BigInt(n)), shop.id, shop.address_line1, shop.city, shop.region, shop.postal_code, shop.lat, shop.lon, JSON.stringify(stored), lab.id],
-  );
-  await db.query(
-    `INSERT INTO lab_offers (referral_id, lab_organization_id, status, offered_at, deadline, responded_at, responded_by_name)
-     VALUES ($1, $2, 'accepted', now(), now() + interval '4 hours', now(), 'Rosa Quintero')`,
-    [row.id, lab.id],
-  );
-  return row;
+  return insertQuillmarkCase(db, {
+    status: 'accepted',
+    customerName: 'Odile Marchetti',
+    customerEmail: 'odile.marchetti@customer.test',
+    device: { make: 'Examplar', model: 'Spinwell 4T' },
+  });
 }
 
 async function signedIn(email: string): Promise<Page> {
