@@ -16,10 +16,6 @@ export async function namedQuery<T>(manager: EntityManager, name: string, text: 
   return result.rows as T[];
 }
 
-/**
- * An entity built from columns of a raw row (`prefix` + column name), as TypeORM would hydrate it, for a
- * named statement that reads an entity together with other rows.
- */
 // A manager that may only read (see withBatchedWrite in appends.ts): its writes all go into one batched
 // statement, and anything else that would write is refused before it reaches the database.
 const readOnly = new WeakSet<EntityManager>();
@@ -62,6 +58,10 @@ export function refuseWrite(sql: string): void {
   }
 }
 
+/**
+ * An entity built from columns of a raw row (`prefix` + column name), as TypeORM would hydrate it, for a
+ * named statement that reads an entity together with other rows.
+ */
 export function hydrateRow<T extends object>(manager: EntityManager, target: new () => T, raw: Record<string, unknown>, prefix = ''): T {
   const meta = manager.connection.getMetadata(target);
   const entity = meta.create() as T;

@@ -143,12 +143,16 @@ export async function findActiveKey(ctx: ServiceContext, bearer: string): Promis
   };
 }
 
+// Built once from the entity's columns, so the statement's text (and its prepared name) never changes.
 let keySql: string | undefined;
 function findActiveKeySql(manager: EntityManager): string {
-  const orgColumns = manager.connection.getMetadata(Organization).columns.map((c) => `o.${c.databaseName} AS o_${c.databaseName}`);
-  return (keySql ??= `SELECT k.id AS k_id, k.name AS k_name, k.prefix AS k_prefix, k.secret_hash AS k_secret_hash, k.last_used_at AS k_last_used_at, ${orgColumns.join(', ')}
+  if (keySql === undefined) {
+    const orgColumns = manager.connection.getMetadata(Organization).columns.map((c) => `o.${c.databaseName} AS o_${c.databaseName}`);
+    keySql = `SELECT k.id AS k_id, k.name AS k_name, k.prefix AS k_prefix, k.secret_hash AS k_secret_hash, k.last_used_at AS k_last_used_at, ${orgColumns.join(', ')}
      FROM api_keys k JOIN organizations o ON o.id = k.organization_id
-     WHERE k.prefix = $1 AND k.revoked_at IS NULL AND o.active AND o.kind = 'partner'`);
+     WHERE k.prefix = $1 AND k.revoked_at IS NULL AND o.active AND o.kind = 'partner'`;
+  }
+  return keySql;
 }
 
 /** How stale `last_used_at` may get before a request writes it again. */

@@ -180,7 +180,7 @@ export async function createReferral(
     ? await ctx.db.transaction((manager) => withBatchedAppends(manager, () => open(manager)))
     : await withBatchedWrite(ctx.db, open);
   if (opened.replayed || !opened.intake) return getReferral(ctx, { partnerOrganizationId: who.partnerOrganizationId }, referralId);
-  // Everything the answer shows was written just now, in this transaction: answer from it rather than
+  // Everything the answer shows was written just now, by this intake: answer from it rather than
   // reading it all back (a test checks the answer equals a later read).
   const { referral, shopName, outcome } = opened.intake;
   const offers = 'offer' in outcome ? [outcome.offer] : [];

@@ -299,11 +299,6 @@ interface ProfileProblemText {
   turnaround: (string | undefined)[];
 }
 
-/**
- * Labs packed for routing: everything about a lab that does not depend on the case, worked out once, in
- * typed arrays indexed by the lab's position in the input. Build with prepareRoutingLabs; rebuild when a
- * lab's profile changes (open-case counts can instead come fresh with each call, see RoutingOptions).
- */
 /** The calendar date in zone `z` at instant `t` (null for a zone that is not an IANA zone), remembered until the zone's next midnight. */
 function localDateIn(index: PreparedRoutingLabs, z: number, t: number): string | null {
   const known = index.localDays[z];
@@ -316,6 +311,11 @@ function localDateIn(index: PreparedRoutingLabs, z: number, t: number): string |
   return day.date;
 }
 
+/**
+ * Labs packed for routing: everything about a lab that does not depend on the case, worked out once, in
+ * typed arrays indexed by the lab's position in the input. Build with prepareRoutingLabs; rebuild when a
+ * lab's profile changes (open-case counts can instead come fresh with each call, see RoutingOptions).
+ */
 class PreparedRoutingLabs {
   /** Number of labs. */
   readonly size: number;
