@@ -4,10 +4,11 @@ import request from 'supertest';
 import { Webhook } from 'standardwebhooks';
 import { afterAll, describe, expect, it } from 'vitest';
 import { dispatchWebhooks, emitPartnerEvent } from '../../server/webhooks';
-import { setupApi, signIn, waitForMail } from '../support/api';
+import { setupApi, signIn } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
-const { app, db, config } = await setupApi({}, { workers: { mail: true } });
+// The e-mail is checked in the outbox: sending it is the mail worker's job, tested in auth.test.ts.
+const { app, db, config } = await setupApi();
 
 // A partner's receiving system on loopback; each test scripts its answers.
 const received: { headers: IncomingHttpHeaders; body: string }[] = [];
@@ -156,8 +157,13 @@ describe('partner webhook deliveries', () => {
     const [endpoint] = (await request(app).get('/api/partner/webhooks').set('Authorization', auth)).body;
     expect(endpoint.status).toBe('disabled');
     expect(endpoint.disabledReason).toMatch(/failed for a day/);
-    const mail = await waitForMail(admin.email, (m) => m.subject.includes('webhook'));
-    expect(mail.text).toContain(receiverUrl);
+    const mail: { subject: string; text_body: string }[] = await db.query(
+      `SELECT subject, text_body FROM outbox_messages WHERE recipient = $1 AND template = 'webhook_endpoint_disabled'`,
+      [admin.email],
+    );
+    expect(mail).toHaveLength(1);
+    expect(mail[0].subject).toMatch(/webhook/i);
+    expect(mail[0].text_body).toContain(receiverUrl);
   });
 });
 
