@@ -7,6 +7,7 @@ import type { Actor, ServiceContext } from '../lib/context';
 import { newOpaqueSecret, secretMatches, sha256 } from '../auth/tokens';
 import { hydrateRow, namedQuery } from '../db/named-query';
 import { Organization } from '../organizations/entities';
+import { DIRECTORY_READING_COLUMNS, DIRECTORY_READING_PARAMS, type DirectoryReadingRow } from '../routing';
 import { ApiKey } from './entities';
 
 /** Who a partner API request acts as: the key, on behalf of its partner organisation. */
@@ -19,6 +20,8 @@ export interface ApiKeyPrincipal {
   /** The shop, read with the key (active, kind partner). */
   organization: Organization;
   lastUsedAt: Date | null;
+  /** The network's directory versions and open cases, read with the key when the route ranks labs. */
+  directoryReading?: DirectoryReadingRow;
 }
 
 /** The actor recorded on timelines and audit lines for work done through the API. */
@@ -121,14 +124,19 @@ export async function revokeApiKey(ctx: ServiceContext, actor: Actor, id: string
 
 /**
  * The key behind a bearer value, or null when it is malformed, unknown, revoked, or its
- * organisation is no longer active. The secret is compared in constant time.
+ * organisation is no longer active. The secret is compared in constant time. With
+ * `withDirectoryReading` (intake), the same statement also reads what the case's ranking needs
+ * fresh, saving a round trip.
  */
-export async function findActiveKey(ctx: ServiceContext, bearer: string): Promise<ApiKeyPrincipal | null> {
+export async function findActiveKey(ctx: ServiceContext, bearer: string, options: { withDirectoryReading?: boolean } = {}): Promise<ApiKeyPrincipal | null> {
   const parsed = parseApiKey(bearer);
   if (!parsed) return null;
   const manager = ctx.db.manager;
   // The shop comes with its key: intake needs its address, and this saves reading it again.
-  const rows: Record<string, unknown>[] = await namedQuery(manager, 'api-keys.find-active', findActiveKeySql(manager), [parsed.prefix]);
+  const withReading = options.withDirectoryReading === true;
+  const rows: Record<string, unknown>[] = withReading
+    ? await namedQuery(manager, 'api-keys.find-active-with-directory', findActiveKeySql(manager, true), [...DIRECTORY_READING_PARAMS, parsed.prefix])
+    : await namedQuery(manager, 'api-keys.find-active', findActiveKeySql(manager, false), [parsed.prefix]);
   const row = rows[0];
   if (!row || !secretMatches(parsed.secret, row.k_secret_hash as string)) return null;
   const organization = hydrateRow(manager, Organization, row, 'o_');
@@ -140,19 +148,33 @@ export async function findActiveKey(ctx: ServiceContext, bearer: string): Promis
     organizationName: organization.name,
     organization,
     lastUsedAt: row.k_last_used_at as Date | null,
+    ...(withReading
+      ? {
+          directoryReading: {
+            directory_version: row.directory_version as string,
+            directory_recipients_version: row.directory_recipients_version as string,
+            directory_open_cases: row.directory_open_cases as Record<string, number>,
+          },
+        }
+      : {}),
   };
 }
 
-// Built once from the entity's columns, so the statement's text (and its prepared name) never changes.
-let keySql: string | undefined;
-function findActiveKeySql(manager: EntityManager): string {
-  if (keySql === undefined) {
-    const orgColumns = manager.connection.getMetadata(Organization).columns.map((c) => `o.${c.databaseName} AS o_${c.databaseName}`);
-    keySql = `SELECT k.id AS k_id, k.name AS k_name, k.prefix AS k_prefix, k.secret_hash AS k_secret_hash, k.last_used_at AS k_last_used_at, ${orgColumns.join(', ')}
+// Built once from the entity's columns, so each statement's text (and its prepared name) never changes.
+const keySql: { plain?: string; withDirectory?: string } = {};
+function findActiveKeySql(manager: EntityManager, withDirectory: boolean): string {
+  const orgColumns = () => manager.connection.getMetadata(Organization).columns.map((c) => `o.${c.databaseName} AS o_${c.databaseName}`);
+  const keyColumns = `k.id AS k_id, k.name AS k_name, k.prefix AS k_prefix, k.secret_hash AS k_secret_hash, k.last_used_at AS k_last_used_at`;
+  const where = (p: string) => `WHERE k.prefix = ${p} AND k.revoked_at IS NULL AND o.active AND o.kind = 'partner'`;
+  if (withDirectory) {
+    // The reading's columns use $1 (the open statuses); the prefix is $2.
+    return (keySql.withDirectory ??= `SELECT ${keyColumns}, ${orgColumns().join(', ')}, ${DIRECTORY_READING_COLUMNS}
      FROM api_keys k JOIN organizations o ON o.id = k.organization_id
-     WHERE k.prefix = $1 AND k.revoked_at IS NULL AND o.active AND o.kind = 'partner'`;
+     ${where('$2')}`);
   }
-  return keySql;
+  return (keySql.plain ??= `SELECT ${keyColumns}, ${orgColumns().join(', ')}
+     FROM api_keys k JOIN organizations o ON o.id = k.organization_id
+     ${where('$1')}`);
 }
 
 /** How stale `last_used_at` may get before a request writes it again. */

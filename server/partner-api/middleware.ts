@@ -13,15 +13,18 @@ declare module 'express-serve-static-core' {
 // RFC 6750 §3: a 401 for a bearer-protected resource names the scheme.
 const challenge = (error?: string) => ({ 'WWW-Authenticate': error ? `Bearer realm="platterpost", error="${error}"` : 'Bearer realm="platterpost"' });
 
-/** `Authorization: Bearer ppk_live_…`: missing, malformed, unknown and revoked keys all answer 401. */
-export function requireApiKey(ctx: ServiceContext): RequestHandler {
+/**
+ * `Authorization: Bearer ppk_live_…`: missing, malformed, unknown and revoked keys all answer 401.
+ * For requests `withDirectoryReading` picks, the key is read together with what ranking labs needs.
+ */
+export function requireApiKey(ctx: ServiceContext, options: { withDirectoryReading?: (req: Request) => boolean } = {}): RequestHandler {
   return async (req, _res, next) => {
     const header = req.header('authorization');
     if (!header) {
       throw new AppError('unauthenticated', 401, 'Send your API key in the header Authorization: Bearer ppk_live_…', undefined, { headers: challenge() });
     }
     const m = /^Bearer\s+(\S+)\s*$/i.exec(header);
-    const principal = m ? await findActiveKey(ctx, m[1]!) : null;
+    const principal = m ? await findActiveKey(ctx, m[1]!, { withDirectoryReading: options.withDirectoryReading?.(req) ?? false }) : null;
     if (!principal) {
       throw new AppError('unauthenticated', 401, 'The API key is not valid or has been revoked', undefined, { headers: challenge('invalid_token') });
     }

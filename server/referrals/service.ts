@@ -29,11 +29,13 @@ import {
   caseForRouting,
   loadLabs,
   lockReferral,
+  primeLabDirectory,
   rankLabs,
   recordTimeline,
   resolvePostalCode,
   routeAndOffer,
   withdrawPendingOffer,
+  type DirectoryReadingRow,
   type DispatchOutcome,
   type TimelineActor,
 } from '../routing';
@@ -166,14 +168,17 @@ async function shopFor(manager: EntityManager, partnerOrganizationId: string): P
 
 export async function createReferral(
   ctx: ServiceContext,
-  who: { partnerOrganizationId: string; actor: ReferralActor; shop?: Organization },
+  who: { partnerOrganizationId: string; actor: ReferralActor; shop?: Organization; /** Read with the caller's key, moments ago. */ directoryReading?: DirectoryReadingRow },
   rawInput: unknown,
   options: { idempotencyKey?: string } = {},
 ): Promise<ReferralDto> {
   const input = parseInput(referralInput, rawInput);
   // Intake writes five timeline steps, e-mails and partner events: collected and written in one statement.
   const opened: OpenedReferral = { replayed: false };
-  const open = (manager: EntityManager) => openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened });
+  const open = (manager: EntityManager) => {
+    if (who.directoryReading) primeLabDirectory(manager, who.directoryReading);
+    return openReferral(ctx, manager, who, input, { idempotencyKey: options.idempotencyKey, now: new Date(), opened });
+  };
   // With an idempotency key the case is opened under a lock on that key, so in a transaction; without
   // one, intake only reads until its single batched write, and needs none.
   const { result: referralId, appended } = options.idempotencyKey

@@ -3,6 +3,7 @@ import type { LatLon } from '@shared/domain/geo';
 import { prepareRoutingLabs, type PreparedRoutingLabs } from '@shared/domain/routing';
 import type { ExcludedDto } from '@shared/schemas/referrals';
 import { namedQuery } from '../db/named-query';
+import { sawRecipientVersion } from './notify';
 import { LAB_OPEN_STATUSES, loadLabsWithVersion, toRoutingLab, type LoadedLab } from './labs';
 
 // The network's labs as routing reads them, held in memory between requests: loading and packing
@@ -26,11 +27,40 @@ export interface DirectoryReading {
 
 const held = new WeakMap<DataSource, LabDirectory>();
 
-const OPEN_CASES_SQL = `
-  SELECT (SELECT version::text FROM lab_directory_version) AS version,
-         coalesce((SELECT json_object_agg(lab_organization_id, n) FROM (
-           SELECT lab_organization_id, count(*)::int AS n FROM referrals
-           WHERE lab_organization_id IS NOT NULL AND status = ANY($1::text[]) GROUP BY lab_organization_id) c), '{}'::json) AS open_cases`;
+/**
+ * What every ranking reads fresh, as select-list items (each aliased `directory_*`; $1 is the open
+ * statuses): the two versions and each lab's open cases. The partner API reads them in the statement
+ * that looks up the key (see primeLabDirectory).
+ */
+export const DIRECTORY_READING_COLUMNS = `
+  (SELECT version::text FROM lab_directory_version) AS directory_version,
+  (SELECT version::text FROM recipient_directory_version) AS directory_recipients_version,
+  coalesce((SELECT json_object_agg(lab_organization_id, n) FROM (
+    SELECT lab_organization_id, count(*)::int AS n FROM referrals
+    WHERE lab_organization_id IS NOT NULL AND status = ANY($1::text[]) GROUP BY lab_organization_id) c), '{}'::json) AS directory_open_cases`;
+
+export const DIRECTORY_READING_PARAMS: readonly unknown[] = [LAB_OPEN_STATUSES];
+
+/** The row those columns make. */
+export interface DirectoryReadingRow {
+  directory_version: string;
+  directory_recipients_version: string;
+  directory_open_cases: Record<string, number>;
+}
+
+const OPEN_CASES_SQL = `SELECT ${DIRECTORY_READING_COLUMNS}`;
+
+// A reading already made for this piece of work, used by its first ranking instead of reading again.
+const primed = new WeakMap<EntityManager, DirectoryReadingRow>();
+
+/**
+ * Hands a reading made moments ago, in this same request, to the work running on `manager`: its
+ * first ranking uses it rather than reading the versions and counts again. (Intake through the
+ * partner API reads them with the key, which saves a round trip to the database per case.)
+ */
+export function primeLabDirectory(manager: EntityManager, row: DirectoryReadingRow): void {
+  primed.set(manager, row);
+}
 
 function build(version: string, labs: LoadedLab[]): LabDirectory {
   const byId = new Map(labs.map((l) => [l.id, l]));
@@ -50,13 +80,16 @@ function build(version: string, labs: LoadedLab[]): LabDirectory {
 
 /** The directory as of this statement, and each lab's open cases now. Reads the labs again only when they changed. */
 export async function readLabDirectory(manager: EntityManager): Promise<DirectoryReading> {
-  const [row] = await namedQuery<{ version: string; open_cases: Record<string, number> }>(manager, 'routing.open-cases', OPEN_CASES_SQL, [LAB_OPEN_STATUSES]);
-  const openCases = new Map(Object.entries(row.open_cases));
+  let row = primed.get(manager);
+  if (row) primed.delete(manager);
+  else [row] = await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, [...DIRECTORY_READING_PARAMS]);
+  sawRecipientVersion(manager, row!.directory_recipients_version);
+  const openCases = new Map(Object.entries(row!.directory_open_cases));
   const source = manager.connection;
   let directory = held.get(source);
-  if (!directory || directory.version !== row.version) {
+  if (!directory || directory.version !== row!.directory_version) {
     const { labs, version } = await loadLabsWithVersion(manager);
-    directory = build(version ?? row.version, labs);
+    directory = build(version ?? row!.directory_version, labs);
     held.set(source, directory);
   }
   return { directory, openCases };

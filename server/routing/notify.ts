@@ -1,5 +1,5 @@
 import { DateTime } from 'luxon';
-import type { EntityManager } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import { labSkillLabels, mediaTypeLabels, type LabSkill } from '@shared/vocabulary';
 import { namedQuery } from '../db/named-query';
 import type { Referral } from '../referrals/entities';
@@ -17,25 +17,72 @@ export interface Recipient {
 
 const RECIPIENT = `u.id, u.email, u.name, u.status, u.notification_preferences`;
 
-export async function labManagers(manager: EntityManager, labId: string): Promise<Recipient[]> {
-  return namedQuery(manager, 'notify.lab-managers', `SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role = 'lab_manager' AND u.status = 'active' ORDER BY u.email`, [labId]);
+// Offers, acceptances and cases left for the network e-mail the same few people again and again, so a
+// server keeps each list it read, under the version of recipient_directory_version it was read with
+// (triggers give that row a new value whenever users or organisations change what the lists read). A
+// list is used again only by work whose own statement saw that same version (`sawRecipientVersion`,
+// from the ranking's directory reading); anything else reads the people afresh.
+interface HeldLists {
+  version: string;
+  lists: Map<string, readonly Recipient[]>;
+}
+const held = new WeakMap<DataSource, HeldLists>();
+const seen = new WeakMap<EntityManager, string>();
+
+/**
+ * Records the recipient-directory version that a statement of this request or transaction read.
+ * Ignored for the data source's shared manager, which outlives any one piece of work.
+ */
+export function sawRecipientVersion(manager: EntityManager, version: string): void {
+  if (manager !== manager.connection.manager) seen.set(manager, version);
 }
 
-export async function shopUsers(manager: EntityManager, partnerId: string): Promise<Recipient[]> {
-  return namedQuery(
+async function recipients(manager: EntityManager, list: string, name: string, where: string, values: unknown[]): Promise<readonly Recipient[]> {
+  const source = manager.connection;
+  const version = seen.get(manager);
+  const hold = held.get(source);
+  if (version !== undefined && hold?.version === version) {
+    const kept = hold.lists.get(list);
+    if (kept) return kept;
+  }
+  // The version comes in the same statement as the people, so a list is never filed under a newer one.
+  const rows = await namedQuery<Recipient & { list_version: string }>(
     manager,
+    name,
+    `SELECT v.version::text AS list_version, p.* FROM recipient_directory_version v
+     LEFT JOIN LATERAL (SELECT ${RECIPIENT} FROM users u ${where}) p ON true ORDER BY p.email`,
+    values,
+  );
+  const people = Object.freeze(
+    rows.filter((r) => r.id !== null).map((r) => Object.freeze({ id: r.id, email: r.email, name: r.name, status: r.status, notification_preferences: r.notification_preferences })),
+  );
+  const readAs = rows[0]!.list_version;
+  const current = hold?.version === readAs ? hold : { version: readAs, lists: new Map<string, readonly Recipient[]>() };
+  current.lists.set(list, people);
+  held.set(source, current);
+  return people;
+}
+
+export async function labManagers(manager: EntityManager, labId: string): Promise<readonly Recipient[]> {
+  return recipients(manager, `lab:${labId}`, 'notify.lab-managers', `WHERE u.organization_id = $1 AND u.role = 'lab_manager' AND u.status = 'active'`, [labId]);
+}
+
+export async function shopUsers(manager: EntityManager, partnerId: string): Promise<readonly Recipient[]> {
+  return recipients(
+    manager,
+    `shop:${partnerId}`,
     'notify.shop-users',
-    `SELECT ${RECIPIENT} FROM users u WHERE u.organization_id = $1 AND u.role IN ('partner_admin', 'partner_staff') AND u.status = 'active' ORDER BY u.email`,
+    `WHERE u.organization_id = $1 AND u.role IN ('partner_admin', 'partner_staff') AND u.status = 'active'`,
     [partnerId],
   );
 }
 
-export async function networkAdmins(manager: EntityManager): Promise<Recipient[]> {
-  return namedQuery(
+export async function networkAdmins(manager: EntityManager): Promise<readonly Recipient[]> {
+  return recipients(
     manager,
+    'network-admins',
     'notify.network-admins',
-    `SELECT ${RECIPIENT} FROM users u JOIN organizations o ON o.id = u.organization_id
-     WHERE u.role = 'network_admin' AND u.status = 'active' AND o.active ORDER BY u.email`,
+    `JOIN organizations o ON o.id = u.organization_id WHERE u.role = 'network_admin' AND u.status = 'active' AND o.active`,
     [],
   );
 }

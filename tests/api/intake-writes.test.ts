@@ -195,6 +195,11 @@ describe('withBatchedWrite (intake without an idempotency key)', () => {
     expect(writes[0]).toMatch(/INSERT INTO referrals/);
     // The batched write is the last statement intake sends.
     expect(statements.at(-1)).toBe(writes[0]);
+    // The ranking's fresh figures come with the key, in its statement; nothing reads them on their own.
+    expect(statements[0]).toMatch(/FROM api_keys k/);
+    expect(statements[0]).toMatch(/AS directory_open_cases/);
+    expect(statements[0]).toMatch(/recipient_directory_version/);
+    expect(statements.filter((s) => /^SELECT\s+\(SELECT version::text FROM lab_directory_version\) AS directory_version/.test(s))).toEqual([]);
   });
 
   it('refuses a write, a locking read or a transaction before the batched statement, and writes nothing', async () => {
