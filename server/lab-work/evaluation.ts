@@ -101,10 +101,8 @@ export async function recordEvaluationIn(
       details,
       at: now,
     });
-    const [lab, shop] = await Promise.all([
-      manager.findOneBy(Organization, { id: worker.organizationId }),
-      manager.findOneBy(Organization, { id: referral.partnerOrganizationId }),
-    ]);
+    const lab = await manager.findOneBy(Organization, { id: worker.organizationId });
+    const shop = await manager.findOneBy(Organization, { id: referral.partnerOrganizationId });
     const link = await issueCustomerLink(manager, { referralId: referral.id, reason: 'no_recovery', issuer: systemIssuer, appUrl: ctx.config.appUrl, now });
     await enqueueEmail(manager, referral.customerEmail, 'customer_no_recovery', {
       customerName: referral.customerName,

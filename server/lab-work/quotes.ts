@@ -107,10 +107,8 @@ export async function sendQuoteIn(
     details: { quoteId: quote.id, version: quote.version, totalMinor, serviceLinesMinor, currency: input.currency },
     at: now,
   });
-  const [lab, shop] = await Promise.all([
-    manager.findOneBy(Organization, { id: worker.organizationId }),
-    manager.findOneBy(Organization, { id: referral.partnerOrganizationId }),
-  ]);
+  const lab = await manager.findOneBy(Organization, { id: worker.organizationId });
+  const shop = await manager.findOneBy(Organization, { id: referral.partnerOrganizationId });
   const link = await issueCustomerLink(manager, { referralId: referral.id, reason: 'quote_sent', issuer: systemIssuer, appUrl: ctx.config.appUrl, now });
   await enqueueEmail(manager, referral.customerEmail, 'customer_quote_ready', {
     customerName: referral.customerName,

@@ -2,6 +2,7 @@ import type { EntityManager } from 'typeorm';
 import { caseStatusLabels } from '@shared/vocabulary';
 import type { Referral } from '../referrals/entities';
 import { CustomerCheckout, RecoveredFileManifest } from './entities';
+import { readTogether } from '../db/reads';
 
 /**
  * For the return shipment: what the case still waits for before its box leaves the lab, or null when it
@@ -13,9 +14,9 @@ export async function returnWaitingFor(manager: EntityManager, referral: Pick<Re
   if (referral.status !== 'ready_for_review') {
     return `The lab’s work is not finished: the case is ${caseStatusLabels[referral.status].toLowerCase()}.`;
   }
-  const [paid, manifest] = await Promise.all([
-    manager.existsBy(CustomerCheckout, { referralId: referral.id, status: 'paid' }),
-    manager.findOne(RecoveredFileManifest, { where: { referralId: referral.id }, order: { version: 'DESC' } }),
+  const [paid, manifest] = await readTogether(manager, [
+    () => manager.existsBy(CustomerCheckout, { referralId: referral.id, status: 'paid' }),
+    () => manager.findOne(RecoveredFileManifest, { where: { referralId: referral.id }, order: { version: 'DESC' } }),
   ]);
   if (!paid) return 'Waiting for the customer’s payment.';
   if (manifest?.reviewStatus !== 'confirmed') return 'Waiting for the customer to confirm the recovered files.';

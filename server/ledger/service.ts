@@ -3,6 +3,7 @@ import type { LedgerCheckDto } from '@shared/schemas/money';
 import type { ServiceContext } from '../lib/context';
 import type { PayeeKind } from './entities';
 import { postTransaction } from './postings';
+import { readTogether } from '../db/reads';
 
 /** Records money sent to a shop's or lab's connected account at settlement (one transfer, one transaction). */
 export async function postPayout(
@@ -36,21 +37,21 @@ export async function ledgerCheck(ctx: ServiceContext): Promise<LedgerCheckDto> 
 }
 
 async function checkIn(m: EntityManager): Promise<LedgerCheckDto> {
-  const [currencies, unbalanced, counts, accounts, mismatches] = await Promise.all([
-    m.query(`SELECT currency, sum(amount_minor)::text AS sum, count(*)::int AS entries FROM ledger_entries GROUP BY currency ORDER BY currency`),
-    m.query(
+  const [currencies, unbalanced, counts, accounts, mismatches] = await readTogether(m, [
+    () => m.query(`SELECT currency, sum(amount_minor)::text AS sum, count(*)::int AS entries FROM ledger_entries GROUP BY currency ORDER BY currency`),
+    () => m.query(
       `SELECT t.id, t.kind, t.currency, coalesce(sum(e.amount_minor), 0)::text AS sum
        FROM ledger_transactions t LEFT JOIN ledger_entries e ON e.transaction_id = t.id
        GROUP BY t.id HAVING coalesce(sum(e.amount_minor), 0) <> 0 OR count(e.id) < 2 LIMIT 50`,
     ),
-    m.query(`SELECT (SELECT count(*) FROM ledger_transactions)::int AS transactions, (SELECT count(*) FROM ledger_entries)::int AS entries`),
-    m.query(
+    () => m.query(`SELECT (SELECT count(*) FROM ledger_transactions)::int AS transactions, (SELECT count(*) FROM ledger_entries)::int AS entries`),
+    () => m.query(
       `SELECT a.kind, a.currency, count(DISTINCT a.id)::int AS accounts, coalesce(sum(e.amount_minor), 0)::text AS balance
        FROM ledger_accounts a LEFT JOIN ledger_entries e ON e.account_id = a.id
        GROUP BY a.kind, a.currency ORDER BY a.currency, a.kind`,
     ),
     // Payable balance (credit, negative) + lines (what was earned) − payouts should be 0 for every payee.
-    m.query(
+    () => m.query(
       `WITH ledger AS (
          SELECT a.organization_id, a.kind, a.currency, sum(e.amount_minor) AS balance
          FROM ledger_accounts a JOIN ledger_entries e ON e.account_id = a.id

@@ -55,10 +55,8 @@ export async function inviteStaff(ctx: ServiceContext, actor: Actor, input: Invi
   return ctx.db.transaction(async (manager) => {
     const existing = await manager.findOneBy(User, { email: input.email });
     if (existing) throw AppError.conflict('Someone with that e-mail already has an account', [{ path: 'email', message: 'Already has an account' }]);
-    const [inviter, org] = await Promise.all([
-      manager.findOneByOrFail(User, { id: actor.userId }),
-      manager.findOneByOrFail(Organization, { id: actor.organizationId }),
-    ]);
+    const inviter = await manager.findOneByOrFail(User, { id: actor.userId });
+    const org = await manager.findOneByOrFail(Organization, { id: actor.organizationId });
     const user = await manager.save(manager.create(User, { ...input, organizationId: org.id, status: 'invited', passwordHash: null }));
     const token = await issueOneTimeToken(manager, {
       userId: user.id,

@@ -6,6 +6,7 @@ import { AppError } from '../lib/errors';
 import { toPayoutAccountDto } from './accounts';
 import { PayoutAccount, SettlementRun } from './entities';
 import { LINE_COLUMNS, listStatements, runDtos, toLineDto, type LineRow } from './views';
+import { readTogether } from '../db/reads';
 
 /** A payee's earnings page: totals, twelve months, statements, the latest lines and the payout account. */
 export async function getEarnings(ctx: ServiceContext, actor: Actor, now = new Date()): Promise<EarningsDto> {
@@ -14,8 +15,8 @@ export async function getEarnings(ctx: ServiceContext, actor: Actor, now = new D
 
 export async function earningsOf(manager: EntityManager, organizationId: string, now = new Date()): Promise<EarningsDto> {
   const since = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 11, 1));
-  const [totals, months, paidByPeriod, recent, account, statements] = await Promise.all([
-    manager.query(
+  const [totals, months, paidByPeriod, recent, account, statements] = await readTogether(manager, [
+    () => manager.query(
       `WITH lines AS (
          SELECT currency, sum(amount_minor) AS accrued, sum(amount_minor) FILTER (WHERE statement_id IS NULL) AS unsettled
          FROM earning_lines WHERE organization_id = $1 GROUP BY currency
@@ -29,23 +30,23 @@ export async function earningsOf(manager: EntityManager, organizationId: string,
        FROM lines l LEFT JOIN st ON st.currency = l.currency ORDER BY l.currency`,
       [organizationId],
     ),
-    manager.query(
+    () => manager.query(
       `SELECT to_char(accrued_at AT TIME ZONE 'UTC', 'YYYY-MM') AS period, currency, sum(amount_minor)::text AS accrued, count(*)::int AS n
        FROM earning_lines WHERE organization_id = $1 AND accrued_at >= $2 GROUP BY 1, 2 ORDER BY 1`,
       [organizationId, since],
     ),
-    manager.query(
+    () => manager.query(
       `SELECT period, currency, sum(payout_minor)::text AS paid FROM statements
        WHERE organization_id = $1 AND status = 'paid' AND period >= $2 GROUP BY 1, 2`,
       [organizationId, since.toISOString().slice(0, 7)],
     ),
-    manager.query(
+    () => manager.query(
       `SELECT ${LINE_COLUMNS} FROM earning_lines l JOIN referrals r ON r.id = l.referral_id
        WHERE l.organization_id = $1 ORDER BY l.accrued_at DESC, l.id LIMIT 20`,
       [organizationId],
     ),
-    manager.findOneBy(PayoutAccount, { organizationId }),
-    listStatements(manager, { organizationId, limit: 24 }),
+    () => manager.findOneBy(PayoutAccount, { organizationId }),
+    () => listStatements(manager, { organizationId, limit: 24 }),
   ]);
 
   const paidMap = new Map((paidByPeriod as { period: string; currency: string; paid: string }[]).map((p) => [`${p.period}|${p.currency.trim()}`, Number(p.paid)]));

@@ -41,6 +41,7 @@ import {
 } from '../routing';
 import { toReferralDto, toSummaryDto, toTriageDto } from './dto';
 import { Referral, TimelineEntry, type StoredBattery, type StoredTriage } from './entities';
+import { readTogether } from '../db/reads';
 
 // Intake and the case as shops and the network read it. Intake stores the case, triages it, ranks the
 // labs, records the ranking and offers the case to the best lab (or accepts it by the lab's rule, or
@@ -333,10 +334,10 @@ export async function openReferral(
 }
 
 async function loadParts(manager: EntityManager, referral: Referral) {
-  const [snapshot, offers, timeline] = await Promise.all([
-    manager.findOne(RoutingSnapshot, { where: { referralId: referral.id }, order: { createdAt: 'DESC' } }),
-    manager.find(LabOffer, { where: { referralId: referral.id }, order: { offeredAt: 'DESC', createdAt: 'DESC' } }),
-    manager.find(TimelineEntry, { where: { referralId: referral.id }, order: { at: 'ASC', position: 'ASC' } }),
+  const [snapshot, offers, timeline] = await readTogether(manager, [
+    () => manager.findOne(RoutingSnapshot, { where: { referralId: referral.id }, order: { createdAt: 'DESC' } }),
+    () => manager.find(LabOffer, { where: { referralId: referral.id }, order: { offeredAt: 'DESC', createdAt: 'DESC' } }),
+    () => manager.find(TimelineEntry, { where: { referralId: referral.id }, order: { at: 'ASC', position: 'ASC' } }),
   ]);
   const labIds = [...new Set(offers.map((o) => o.labOrganizationId))];
   const labs = labIds.length ? await manager.find(Organization, { where: { id: In(labIds) } }) : [];

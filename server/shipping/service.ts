@@ -23,6 +23,7 @@ import { carrierClient, classifyCarrierError, toMinorUnits, type CarrierFailure,
 import { isVoidable, statusRank, toShipmentDto, type Channel } from './dto';
 import { Shipment, ShipmentScan, type StoredAddress } from './entities';
 import { packingSlipPdf } from './slip';
+import { readTogether } from '../db/reads';
 
 // Prepaid labels. The network pays; the cost is kept on the shipment in integer cents. Rates come from the
 // shipping service for the box the shop (or the lab's clerk) describes, filtered by the lithium battery
@@ -318,9 +319,9 @@ export async function quoteInbound(
   if (!referral) throw AppError.notFound('That case');
   const blocked = await inboundBlockedReason(manager, referral);
   if (blocked) throw AppError.conflict(blocked);
-  const [shop, lab] = await Promise.all([
-    manager.findOneByOrFail(Organization, { id: referral.partnerOrganizationId }),
-    manager.findOneByOrFail(Organization, { id: referral.labOrganizationId! }),
+  const [shop, lab] = await readTogether(manager, [
+    () => manager.findOneByOrFail(Organization, { id: referral.partnerOrganizationId }),
+    () => manager.findOneByOrFail(Organization, { id: referral.labOrganizationId! }),
   ]);
   await assertNoUnresolvedPurchase(ctx, referral.id, 'inbound');
   return createQuote(

@@ -240,12 +240,11 @@ export async function seedDemoLabWork(manager: EntityManager, orgIds: Map<string
   const storage = storageFromConfig(options.config);
   const labId = orgIds.get('quillmark')!;
   const person = (email: string) => manager.findOneByOrFail(User, { email });
-  const [technician, labManager, clerk, admin] = await Promise.all([
-    person('sam.idowu@quillmark.example'),
-    person('rosa.quintero@quillmark.example'),
-    person('lee.varga@quillmark.example'),
-    person('ines.albright@platterpost.example'),
-  ]);
+  // One after another: the seed runs in one transaction, on one connection.
+  const technician = await person('sam.idowu@quillmark.example');
+  const labManager = await person('rosa.quintero@quillmark.example');
+  const clerk = await person('lee.varga@quillmark.example');
+  const admin = await person('ines.albright@platterpost.example');
   const tech = { type: 'user' as const, organizationId: labId, userId: technician.id };
   const mgr = { type: 'user' as const, organizationId: labId, userId: labManager.id };
 
