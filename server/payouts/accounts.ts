@@ -48,7 +48,7 @@ function isMissing(err: unknown): boolean {
   return e?.statusCode === 404 || e?.code === 'resource_missing';
 }
 
-const returnPath = (actor: Actor) => (actor.organizationKind === 'lab' ? '/lab/profile' : '/partner/earnings');
+const returnPath = (actor: Actor) => (actor.organizationKind === 'lab' ? '/lab/earnings' : '/partner/earnings');
 
 /**
  * The organisation's payout account. While onboarding is not finished, asks the provider for the latest

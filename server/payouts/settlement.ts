@@ -288,7 +288,7 @@ async function recipientsOf(manager: EntityManager, organizationIds: string[]): 
 }
 
 function statementsUrl(ctx: ServiceContext, payeeKind: string) {
-  return `${ctx.config.appUrl}${payeeKind === 'lab' ? '/lab/profile' : '/partner/earnings'}`;
+  return `${ctx.config.appUrl}${payeeKind === 'lab' ? '/lab/earnings' : '/partner/earnings'}`;
 }
 
 async function notifyStatementsReady(ctx: ServiceContext, manager: EntityManager, period: string, prepared: PreparedStatement[]) {

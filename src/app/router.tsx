@@ -95,6 +95,7 @@ export function createAppRouter(queryClient: QueryClient) {
             { path: lab(paths.lab.case.path), lazy: page('lab', () => import('./routes/lab/case')) },
             { path: lab(paths.lab.labProfile.path), lazy: page('lab', () => import('./routes/lab/lab-profile')) },
             { path: lab(paths.lab.staff.path), lazy: page('lab', () => import('./routes/lab/staff')) },
+            { path: lab(paths.lab.earnings.path), lazy: page('lab', () => import('./routes/lab/earnings')) },
             { path: '*', Component: NotFoundInPortal },
           ]),
         },

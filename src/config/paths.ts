@@ -70,6 +70,7 @@ export const paths = {
     } satisfies PathEntry<[caseId: string]>,
     bench: fixed('/lab/bench', 'bench.work'),
     labProfile: fixed('/lab/profile', 'lab-profile.manage'),
+    earnings: fixed('/lab/earnings', 'lab-payouts.manage'),
     staff: fixed('/lab/staff', 'staff.read'),
   },
 

@@ -44,10 +44,12 @@ describe('pathAccess', () => {
     expect(pathAccess(userWith('partner_staff'), '/partner/earnings')).toBe('forbidden');
     expect(pathAccess(userWith('shipping_clerk'), '/lab/offers')).toBe('forbidden');
     expect(pathAccess(userWith('lab_technician'), '/lab/staff')).toBe('forbidden');
+    expect(pathAccess(userWith('lab_technician'), '/lab/earnings')).toBe('forbidden');
   });
 
   it('allows the pages the role has the permission for, including ones with parameters', () => {
     expect(pathAccess(userWith('partner_admin'), '/partner/settings/webhooks')).toBe('allowed');
+    expect(pathAccess(userWith('lab_manager'), '/lab/earnings')).toBe('allowed');
     expect(pathAccess(userWith('partner_staff'), '/partner/cases/PP-7K3M')).toBe('allowed');
     expect(pathAccess(userWith('lab_manager'), '/lab/bench')).toBe('allowed');
   });

@@ -94,8 +94,8 @@ describe('payout account onboarding', () => {
     const labStart = await request(app).post('/api/lab/payout-account').set(auth(lab.accessToken));
     expect(labStart.status).toBe(201);
     const link = [...payments.fake.state.store.accountLinks.values()].find((l) => l.account === labStart.body.account.accountId)!;
-    expect(link.return_url).toBe('http://app.test/lab/profile?payouts=returned');
-    expect(link.refresh_url).toBe('http://app.test/lab/profile?payouts=refresh');
+    expect(link.return_url).toBe('http://app.test/lab/earnings?payouts=returned');
+    expect(link.refresh_url).toBe('http://app.test/lab/earnings?payouts=refresh');
 
     expect((await request(app).post('/api/lab/payout-account').set(auth(shop.accessToken))).status).toBe(403);
     expect((await request(app).post('/api/partner/payout-account').set(auth(lab.accessToken))).status).toBe(403);

@@ -11,6 +11,7 @@ export const labNav: NavEntry[] = [
   { label: 'Bench queue', href: paths.lab.bench.getHref(), permission: paths.lab.bench.permission },
   { label: 'Lab profile', href: paths.lab.labProfile.getHref(), permission: paths.lab.labProfile.permission },
   { label: 'Staff', href: paths.lab.staff.getHref(), permission: paths.lab.staff.permission },
+  { label: 'Earnings', href: paths.lab.earnings.getHref(), permission: paths.lab.earnings.permission },
 ];
 
 export function LabShell() {

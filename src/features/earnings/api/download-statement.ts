@@ -1,15 +1,17 @@
 import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Payee } from '../payee';
 
 export interface StatementDownload {
+  payee: Payee;
   statementId: string;
   format: 'csv' | 'pdf';
   fileName: string;
 }
 
 /** Statements need the bearer token, so they are fetched as a blob and saved through an object URL. */
-export async function downloadStatement({ statementId, format, fileName }: StatementDownload): Promise<void> {
-  const blob = await api.get<Blob>(`/partner/statements/${encodeURIComponent(statementId)}/${format}`, { responseType: 'blob' });
+export async function downloadStatement({ payee, statementId, format, fileName }: StatementDownload): Promise<void> {
+  const blob = await api.get<Blob>(`/${payee}/statements/${encodeURIComponent(statementId)}/${format}`, { responseType: 'blob' });
   const url = URL.createObjectURL(blob);
   const link = document.createElement('a');
   link.href = url;

@@ -3,12 +3,12 @@ import { formatMoney } from '@shared/domain/money';
 import { earningLineKindLabels, type EarningLineDto } from '@shared/schemas/money';
 import { TextLink } from '@/components/ui/link';
 import { Table, type TableColumn } from '@/components/ui/table';
-import { paths } from '@/config/paths';
 import { formatDate } from '@/lib/format';
+import { usePayee } from '../payee';
 
-const columns: TableColumn<EarningLineDto>[] = [
+const columnsFor = (caseHref: (id: string) => string): TableColumn<EarningLineDto>[] => [
   { header: 'Date', cell: (l) => formatDate(l.accruedAt, 'UTC'), className: 'whitespace-nowrap' },
-  { header: 'Case', cell: (l) => <TextLink to={paths.partner.case.getHref(l.referralId)}>{l.reference}</TextLink>, className: 'whitespace-nowrap' },
+  { header: 'Case', cell: (l) => <TextLink to={caseHref(l.referralId)}>{l.reference}</TextLink>, className: 'whitespace-nowrap' },
   { header: 'Line', cell: (l) => earningLineKindLabels[l.kind] },
   {
     header: 'Service lines',
@@ -19,7 +19,8 @@ const columns: TableColumn<EarningLineDto>[] = [
   { header: 'Statement', cell: (l) => (l.statementId ? 'On a statement' : 'Not settled yet'), className: 'text-ink-muted' },
 ];
 
-/** Commission lines, each linked to its case. */
+/** Earning lines, each linked to its case as the payee sees it. */
 export function EarningLines({ lines, caption, empty }: { lines: EarningLineDto[]; caption: string; empty: string }) {
-  return <Table caption={caption} columns={columns} rows={lines} rowKey={(l) => l.id} empty={empty} />;
+  const { words } = usePayee();
+  return <Table caption={caption} columns={columnsFor(words.caseHref)} rows={lines} rowKey={(l) => l.id} empty={empty} />;
 }

@@ -1,6 +1,7 @@
 import { formatPeriod } from '@shared/domain/commission';
 import { formatMoney } from '@shared/domain/money';
 import type { EarningsDto } from '@shared/schemas/money';
+import { usePayee } from '../payee';
 
 interface Month {
   period: string;
@@ -25,7 +26,7 @@ const HEIGHT = 220;
 const PAD = { top: 16, right: 8, bottom: 28, left: 8 };
 
 /**
- * Commission by month as pairs of bars: earned in the month (the month its cases were paid) and paid out
+ * Earnings by month as pairs of bars: earned in the month (the month its cases were paid) and paid out
  * for it. Our own drawing in SVG; the numbers are also in the month list below, for screen readers.
  */
 export function EarningsChart({ months, currency, onSelect, selected }: { months: Month[]; currency: string; onSelect?: (period: string) => void; selected?: string | null }) {
@@ -35,12 +36,13 @@ export function EarningsChart({ months, currency, onSelect, selected }: { months
   const plotHeight = HEIGHT - PAD.top - PAD.bottom;
   const y = (v: number) => PAD.top + plotHeight - (Math.max(v, 0) / max) * plotHeight;
   const total = months.reduce((s, m) => s + m.accruedMinor, 0);
+  const { words } = usePayee();
   return (
     <figure className="flex flex-col gap-3">
       <svg
         viewBox={`0 0 ${WIDTH} ${HEIGHT}`}
         role="img"
-        aria-label={`Commission earned over the last twelve months: ${formatMoney(total, currency)} in all`}
+        aria-label={`${words.earning} earned over the last twelve months: ${formatMoney(total, currency)} in all`}
         className="h-auto w-full"
       >
         <line x1={PAD.left} x2={WIDTH - PAD.right} y1={PAD.top + plotHeight} y2={PAD.top + plotHeight} className="stroke-ink-line" strokeWidth={1} />

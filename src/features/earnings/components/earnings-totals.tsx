@@ -1,5 +1,6 @@
 import { formatMoney } from '@shared/domain/money';
 import type { EarningsDto } from '@shared/schemas/money';
+import { usePayee } from '../payee';
 
 function Figure({ label, value, hint }: { label: string; value: string; hint: string }) {
   return (
@@ -11,15 +12,18 @@ function Figure({ label, value, hint }: { label: string; value: string; hint: st
   );
 }
 
-/** Accrued, pending and paid, per currency the shop has earned in. */
+/** Accrued, pending and paid, per currency the payee has earned in. */
 export function EarningsTotals({ totals }: { totals: EarningsDto['totals'] }) {
+  const { words } = usePayee();
   if (totals.length === 0) {
-    return <p className="text-sm text-ink-muted">No commission yet. It accrues when a customer you referred pays for their recovery.</p>;
+    return <p className="text-sm text-ink-muted">
+        No {words.earningInText} yet. {words.howItAccrues}
+      </p>;
   }
   return (
     <div className="flex flex-col gap-4">
       {totals.map((t) => (
-        <dl key={t.currency} aria-label={`Commission in ${t.currency}`} className="grid gap-4 sm:grid-cols-3">
+        <dl key={t.currency} aria-label={`${words.earning} in ${t.currency}`} className="grid gap-4 sm:grid-cols-3">
           <Figure label="Accrued" value={formatMoney(t.accruedMinor, t.currency)} hint="Earned on paid recoveries, less refunds" />
           <Figure
             label="Pending"

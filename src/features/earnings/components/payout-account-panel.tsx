@@ -8,34 +8,36 @@ import { Card } from '@/components/ui/card';
 import { getPayoutAccountQueryOptions } from '../api/get-payout-account';
 import { earningsKeys } from '../api/keys';
 import { useStartPayoutOnboarding } from '../api/start-payout-onboarding';
+import { usePayee } from '../payee';
 
-const statusText: Record<PayoutAccountDto['status'], { tone: 'success' | 'warning' | 'neutral' | 'info'; label: string; text: string }> = {
-  none: { tone: 'neutral', label: 'Not set up', text: 'Set up a payout account so your monthly commission can be paid. It takes a few minutes on our payment provider’s page.' },
+const statusText = (earning: string): Record<PayoutAccountDto['status'], { tone: 'success' | 'warning' | 'neutral' | 'info'; label: string; text: string }> => ({
+  none: { tone: 'neutral', label: 'Not set up', text: `Set up a payout account so your monthly ${earning} can be paid. It takes a few minutes on our payment provider’s page.` },
   onboarding: { tone: 'info', label: 'Set-up not finished', text: 'The payment provider still needs some details before it can pay you. Continue where you left off.' },
   restricted: { tone: 'warning', label: 'Needs attention', text: 'The payment provider has your details but cannot pay out yet. Open the set-up again to see what it needs.' },
-  enabled: { tone: 'success', label: 'Payouts enabled', text: 'Monthly commission is paid to this account after each settlement.' },
-};
+  enabled: { tone: 'success', label: 'Payouts enabled', text: `Your monthly ${earning} is paid to this account after each settlement.` },
+});
 
-/** The shop's payout account: its state at the provider, and the way to set it up or finish it. */
+/** The payee's payout account: its state at the provider, and the way to set it up or finish it. */
 export function PayoutAccountPanel({ account: fromSummary, returned }: { account: PayoutAccountDto; returned: 'returned' | 'refresh' | null }) {
-  const start = useStartPayoutOnboarding();
+  const { payee, words } = usePayee();
+  const start = useStartPayoutOnboarding(payee);
   const queryClient = useQueryClient();
   // Back from the provider's page: ask for the account's state every two seconds for a minute, until it is enabled.
   const [watchUntil] = useState(() => (returned === 'returned' ? Date.now() + 60_000 : 0));
   const live = useQuery({
-    ...getPayoutAccountQueryOptions(),
+    ...getPayoutAccountQueryOptions(payee),
     enabled: returned === 'returned' && fromSummary.status !== 'enabled',
     refetchInterval: (query) => (query.state.data?.status !== 'enabled' && Date.now() < watchUntil ? 2000 : false),
   });
   const account = live.data ?? fromSummary;
   useEffect(() => {
-    if (live.data?.status === 'enabled' && fromSummary.status !== 'enabled') void queryClient.invalidateQueries({ queryKey: earningsKeys.summary() });
-  }, [live.data?.status, fromSummary.status, queryClient]);
-  const state = statusText[account.status];
+    if (live.data?.status === 'enabled' && fromSummary.status !== 'enabled') void queryClient.invalidateQueries({ queryKey: earningsKeys.summary(payee) });
+  }, [live.data?.status, fromSummary.status, queryClient, payee]);
+  const state = statusText(words.earningInText)[account.status];
   return (
     <Card
       title="Payout account"
-      description="Where your commission is paid"
+      description={`Where your ${words.earningInText} is paid`}
       actions={<Badge tone={state.tone}>{state.label}</Badge>}
     >
       <div className="flex flex-col gap-3">

@@ -6,6 +6,7 @@ import { Table, type TableColumn } from '@/components/ui/table';
 import { toast } from '@/components/ui/toast';
 import { formatDate } from '@/lib/format';
 import { useDownloadStatement } from '../api/download-statement';
+import { usePayee } from '../payee';
 import { StatementStatusBadge } from './statement-status-badge';
 
 function fileName(s: StatementDto, format: 'csv' | 'pdf') {
@@ -13,10 +14,11 @@ function fileName(s: StatementDto, format: 'csv' | 'pdf') {
 }
 
 function Downloads({ statement }: { statement: StatementDto }) {
+  const { payee } = usePayee();
   const download = useDownloadStatement();
   const get = (format: 'csv' | 'pdf') =>
     download.mutate(
-      { statementId: statement.id, format, fileName: fileName(statement, format) },
+      { payee, statementId: statement.id, format, fileName: fileName(statement, format) },
       { onError: () => toast.error('The statement could not be downloaded. Try again in a moment.') },
     );
   const label = formatPeriod(statement.period);
