@@ -26,7 +26,7 @@ import {
   LabOffer,
   RoutingSnapshot,
   assignInTransaction,
-  caseForRouting,
+  caseForRoutingNow,
   loadLabs,
   lockReferral,
   primeLabDirectory,
@@ -518,7 +518,7 @@ export async function listAttention(ctx: ServiceContext): Promise<{ data: Attent
     const offers = await manager.find(LabOffer, { where: { referralId: referral.id }, order: { offeredAt: 'ASC' } });
     const labs = offers.length ? await manager.find(Organization, { where: { id: In([...new Set(offers.map((o) => o.labOrganizationId))]) } }) : [];
     const names = new Map(labs.map((l) => [l.id, l.name]));
-    const ranking = await rankLabs(manager, caseForRouting(referral), { asOf: now, previouslyOfferedLabIds: offers.map((o) => o.labOrganizationId) });
+    const ranking = await rankLabs(manager, await caseForRoutingNow(manager, referral), { asOf: now, previouslyOfferedLabIds: offers.map((o) => o.labOrganizationId) });
     const since = await manager.findOne(TimelineEntry, { where: { referralId: referral.id, kind: 'needs_attention' }, order: { at: 'DESC', position: 'DESC' } });
     data.push({
       referral: toSummaryDto(referral),

@@ -1,6 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { offerDeadline } from '@shared/domain/business-hours';
-import { geodesicDistanceKm } from '@shared/domain/geo';
+import { geodesicDistanceKm, type LatLon } from '@shared/domain/geo';
 import { declineReasonLabels, type DeclineOfferInput } from '@shared/schemas/referrals';
 import type { AutoAcceptRule } from '@shared/schemas/labs';
 import type { LabSkill } from '@shared/vocabulary';
@@ -40,6 +40,21 @@ export function caseForRouting(referral: Referral) {
   return { mediaType: referral.mediaType, origin: { lat: referral.originLat, lon: referral.originLon }, triage: referral.triage };
 }
 
+/**
+ * The case as routing sees it now. The device is at the shop until a lab that examined it declines it;
+ * then it is at that lab, which ships it on (an open lab transfer), so distances and transit days are
+ * counted from there. (SQL rather than an import: receiving builds on routing.)
+ */
+export async function caseForRoutingNow(manager: EntityManager, referral: Referral): Promise<ReturnType<typeof caseForRouting> & { heldBy: string | null }> {
+  const [held]: { name: string; lat: number; lon: number }[] = await manager.query(
+    `SELECT o.name, o.lat, o.lon FROM lab_transfers t JOIN organizations o ON o.id = t.from_lab_organization_id
+     WHERE t.referral_id = $1 AND t.status = 'open' AND o.lat IS NOT NULL AND o.lon IS NOT NULL LIMIT 1`,
+    [referral.id],
+  );
+  const kase = caseForRouting(referral);
+  return held ? { ...kase, origin: { lat: Number(held.lat), lon: Number(held.lon) }, heldBy: held.name } : { ...kase, heldBy: null };
+}
+
 /** The first rule of the lab that covers every required skill and the distance, if any. */
 export function matchingAutoAcceptRule(rules: readonly AutoAcceptRule[], requiredSkills: readonly LabSkill[], distanceKm: number): AutoAcceptRule | null {
   return rules.find((rule) => requiredSkills.every((s) => rule.skills.includes(s)) && distanceKm <= rule.maxDistanceKm) ?? null;
@@ -54,10 +69,10 @@ async function partnerName(manager: EntityManager, referral: Referral): Promise<
   return rows[0]?.name ?? 'the shop';
 }
 
-async function saveSnapshot(manager: EntityManager, referral: Referral, ranking: Ranking, trigger: RoutingTrigger): Promise<RoutingSnapshot> {
+async function saveSnapshot(manager: EntityManager, referral: Referral, ranking: Ranking, trigger: RoutingTrigger, origin: LatLon): Promise<RoutingSnapshot> {
   const buffer = appendBufferOf(manager);
   if (buffer) {
-    const row = { id: newRowId(), referralId: referral.id, trigger, originLat: referral.originLat, originLon: referral.originLon, candidates: ranking.candidates, excluded: ranking.excluded };
+    const row = { id: newRowId(), referralId: referral.id, trigger, originLat: origin.lat, originLon: origin.lon, candidates: ranking.candidates, excluded: ranking.excluded };
     buffer.snapshots.push(row);
     return Object.assign(new RoutingSnapshot(), row);
   }
@@ -65,8 +80,8 @@ async function saveSnapshot(manager: EntityManager, referral: Referral, ranking:
     manager.create(RoutingSnapshot, {
       referralId: referral.id,
       trigger,
-      originLat: referral.originLat,
-      originLon: referral.originLon,
+      originLat: origin.lat,
+      originLon: origin.lon,
       candidates: ranking.candidates,
       excluded: ranking.excluded,
     }),
@@ -244,15 +259,18 @@ export async function routeAndOffer(
 ): Promise<DispatchOutcome> {
   const previouslyOfferedLabIds =
     options.previouslyOfferedLabIds ?? [...new Set((await manager.find(LabOffer, { where: { referralId: referral.id } })).map((o) => o.labOrganizationId))];
-  const ranking = await rankLabs(manager, caseForRouting(referral), { asOf: options.now, previouslyOfferedLabIds });
-  const snapshot = await saveSnapshot(manager, referral, ranking, options.trigger);
+  // At intake the device is at the shop; later it may be at a lab that declined it after examining it.
+  const kase = options.trigger === 'intake' ? { ...caseForRouting(referral), heldBy: null } : await caseForRoutingNow(manager, referral);
+  const ranking = await rankLabs(manager, kase, { asOf: options.now, previouslyOfferedLabIds });
+  const snapshot = await saveSnapshot(manager, referral, ranking, options.trigger, kase.origin);
   const n = ranking.candidateCount;
+  const from = kase.heldBy ? `Ranked from ${kase.heldBy}, which holds the device. ` : '';
   await recordTimeline(manager, referral, {
     kind: 'routed',
     summary:
       n === 0
-        ? `No lab qualifies (${ranking.excluded.length} excluded).`
-        : `${n} ${n === 1 ? 'lab qualifies' : 'labs qualify'}; best: ${ranking.candidates[0].labName}, about ${ranking.candidates[0].estimatedDays} business days to data (${ranking.excluded.length} excluded).`,
+        ? `${from}No lab qualifies (${ranking.excluded.length} excluded).`
+        : `${from}${n} ${n === 1 ? 'lab qualifies' : 'labs qualify'}; best: ${ranking.candidates[0].labName}, about ${ranking.candidates[0].estimatedDays} business days to data (${ranking.excluded.length} excluded).`,
     actor: routingActor,
     at: options.now,
     details: { snapshotId: snapshot.id, trigger: options.trigger, candidates: n, excluded: ranking.excluded.length },
@@ -371,12 +389,13 @@ export async function assignInTransaction(
 ): Promise<DispatchOutcome> {
   const previous = await manager.find(LabOffer, { where: { referralId: referral.id } });
   // Every candidate, so that the chosen lab's place in the ranking is known wherever it stands.
-  const ranking = await rankLabs(manager, caseForRouting(referral), {
+  const kase = await caseForRoutingNow(manager, referral);
+  const ranking = await rankLabs(manager, kase, {
     asOf: how.now,
     previouslyOfferedLabIds: [...new Set(previous.map((o) => o.labOrganizationId))],
     limit: null,
   });
-  const snapshot = await saveSnapshot(manager, referral, ranking, 'manual');
+  const snapshot = await saveSnapshot(manager, referral, ranking, 'manual', kase.origin);
   const candidate = ranking.candidates.find((c) => c.labId === lab.id);
   if (!lab.location) throw AppError.validation([{ path: 'labId', message: 'That lab has no location on file' }]);
   await recordTimeline(manager, referral, {
@@ -389,7 +408,7 @@ export async function assignInTransaction(
   return makeOffer(ctx, manager, referral, lab, {
     snapshotId: snapshot.id,
     rank: candidate ? ranking.candidates.indexOf(candidate) + 1 : null,
-    distanceKm: candidate?.distanceKm ?? geodesicDistanceKm({ lat: referral.originLat, lon: referral.originLon }, lab.location),
+    distanceKm: candidate?.distanceKm ?? geodesicDistanceKm(kase.origin, lab.location),
     estimatedDays: candidate?.estimatedDays ?? null,
     actor: how.actor,
     assignedByUserId: how.actor.id,

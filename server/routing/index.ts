@@ -18,6 +18,7 @@ export {
   expireOverdueOffers,
   lockReferral,
   caseForRouting,
+  caseForRoutingNow,
   matchingAutoAcceptRule,
   type DispatchOutcome,
   type ExpiryResult,

@@ -278,6 +278,14 @@ describe('outbound: returns and lab-to-lab transfers', () => {
 
     const declined = await request(app).post(`/api/lab/cases/${referral.id}/decline-after-arrival`).set(auth(manager.token)).send({ reason: 'missing_skill_or_parts', note: 'No donor heads' });
     expect(declined.status).toBe(200);
+    // The next ranking counts distances from the lab that holds the device, not from the shop.
+    const [held] = await db.query(`SELECT lat, lon FROM organizations WHERE id = $1`, [lab.id]);
+    const [shopOrigin] = await db.query(`SELECT origin_lat AS lat, origin_lon AS lon FROM referrals WHERE id = $1`, [referral.id]);
+    expect(held).not.toEqual(shopOrigin);
+    const [snapshot] = await db.query(`SELECT trigger, origin_lat AS lat, origin_lon AS lon FROM routing_snapshots WHERE referral_id = $1 ORDER BY created_at DESC LIMIT 1`, [referral.id]);
+    expect(snapshot).toEqual({ trigger: 'reoffer', lat: held.lat, lon: held.lon });
+    const [routed] = await db.query(`SELECT summary FROM referral_timeline WHERE referral_id = $1 AND kind = 'routed' ORDER BY at DESC LIMIT 1`, [referral.id]);
+    expect(routed.summary).toContain(`Ranked from ${lab.name}, which holds the device.`);
     expect((await db.query(`SELECT status FROM lab_transfers WHERE referral_id = $1`, [referral.id]))[0].status).toBe('open');
     const shopView = caseShippingDto.parse((await request(app).get(`/api/referrals/${referral.id}/shipping`).set(auth(staff.token))).body);
     expect(shopView.canCreateLabel).toBe(false);
