@@ -52,7 +52,7 @@ export function parseApiKey(key: string): { prefix: string; secret: string } | n
   return m ? { prefix: m[1]!, secret: m[2]! } : null;
 }
 
-const toDto = (k: ApiKey): ApiKeyDto => ({
+export const apiKeyToDto = (k: ApiKey): ApiKeyDto => ({
   id: k.id,
   name: k.name,
   prefix: k.prefix,
@@ -77,13 +77,22 @@ export async function insertApiKey(
   );
 }
 
-export async function createApiKey(ctx: ServiceContext, actor: Actor, input: CreateApiKeyInput, meta: { ip?: string | null } = {}): Promise<CreatedApiKeyDto> {
-  if (actor.organizationKind !== 'partner') throw AppError.forbidden('Only a partner organisation has API keys');
+/**
+ * Keys of one organisation, whichever kind: the shops' partner API keys and the labs' tooling keys live in
+ * the same table and format and differ only in who may hold them and what their audit lines are called.
+ */
+export interface KeyAudit {
+  created: string;
+  revoked: string;
+}
+
+/** A new key for the actor's organisation, audited; its secret is in the answer and nowhere else. */
+export async function issueOrganizationKey(ctx: ServiceContext, actor: Actor, name: string, audit: KeyAudit, meta: { ip?: string | null } = {}): Promise<CreatedApiKeyDto> {
   return ctx.db.transaction(async (manager) => {
     const { secret } = newOpaqueSecret();
-    const key = await insertApiKey(manager, { organizationId: actor.organizationId, name: input.name, prefix: newPrefix(), secret, createdById: actor.userId });
+    const key = await insertApiKey(manager, { organizationId: actor.organizationId, name, prefix: newPrefix(), secret, createdById: actor.userId });
     await recordAudit(manager, {
-      action: 'api_key.created',
+      action: audit.created,
       actorUserId: actor.userId,
       organizationId: actor.organizationId,
       targetType: 'api_key',
@@ -95,22 +104,23 @@ export async function createApiKey(ctx: ServiceContext, actor: Actor, input: Cre
   });
 }
 
-export async function listApiKeys(ctx: ServiceContext, actor: Actor): Promise<ApiKeyDto[]> {
-  const keys = await ctx.db.getRepository(ApiKey).find({ where: { organizationId: actor.organizationId }, order: { createdAt: 'DESC', id: 'DESC' } });
-  return keys.map(toDto);
+export async function listOrganizationKeys(ctx: ServiceContext, organizationId: string): Promise<ApiKeyDto[]> {
+  const keys = await ctx.db.getRepository(ApiKey).find({ where: { organizationId }, order: { createdAt: 'DESC', id: 'DESC' } });
+  return keys.map(apiKeyToDto);
 }
 
 /** Revoking twice is harmless: the first revocation stands and is the only one audited. */
-export async function revokeApiKey(ctx: ServiceContext, actor: Actor, id: string, meta: { ip?: string | null } = {}): Promise<ApiKeyDto> {
+export async function revokeOrganizationKey(ctx: ServiceContext, actor: Actor, id: string, audit: KeyAudit, meta: { ip?: string | null } = {}): Promise<ApiKeyDto> {
+  if (!/^[0-9a-f-]{36}$/i.test(id)) throw AppError.notFound('That key');
   return ctx.db.transaction(async (manager) => {
     const key = await manager.findOne(ApiKey, { where: { id, organizationId: actor.organizationId }, lock: { mode: 'pessimistic_write' } });
-    if (!key) throw AppError.notFound('That API key');
-    if (key.revokedAt) return toDto(key);
+    if (!key) throw AppError.notFound('That key');
+    if (key.revokedAt) return apiKeyToDto(key);
     key.revokedAt = new Date();
     key.revokedById = actor.userId;
     await manager.save(key);
     await recordAudit(manager, {
-      action: 'api_key.revoked',
+      action: audit.revoked,
       actorUserId: actor.userId,
       organizationId: actor.organizationId,
       targetType: 'api_key',
@@ -118,8 +128,27 @@ export async function revokeApiKey(ctx: ServiceContext, actor: Actor, id: string
       details: { name: key.name, prefix: key.prefix },
       ip: meta.ip ?? null,
     });
-    return toDto(key);
+    return apiKeyToDto(key);
   });
+}
+
+const partnerKeyAudit: KeyAudit = { created: 'api_key.created', revoked: 'api_key.revoked' };
+
+function requirePartner(actor: Actor): void {
+  if (actor.organizationKind !== 'partner') throw AppError.forbidden('Only a partner organisation has API keys');
+}
+
+export async function createApiKey(ctx: ServiceContext, actor: Actor, input: CreateApiKeyInput, meta: { ip?: string | null } = {}): Promise<CreatedApiKeyDto> {
+  requirePartner(actor);
+  return issueOrganizationKey(ctx, actor, input.name, partnerKeyAudit, meta);
+}
+
+export async function listApiKeys(ctx: ServiceContext, actor: Actor): Promise<ApiKeyDto[]> {
+  return listOrganizationKeys(ctx, actor.organizationId);
+}
+
+export async function revokeApiKey(ctx: ServiceContext, actor: Actor, id: string, meta: { ip?: string | null } = {}): Promise<ApiKeyDto> {
+  return revokeOrganizationKey(ctx, actor, id, partnerKeyAudit, meta);
 }
 
 /**
