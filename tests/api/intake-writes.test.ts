@@ -11,6 +11,7 @@ import { enqueueEmail } from '../../server/notifications';
 import { recordTimeline } from '../../server/routing/timeline';
 import { setupApi, signIn, unique } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
+import { statementsOf } from '../support/statements';
 
 // Intake collects its timeline steps, e-mails, partner events and jobs and writes them in one
 // statement before commit (server/db/appends.ts). These tests check that what lands is what the
@@ -163,29 +164,12 @@ describe('withBatchedAppends', () => {
 describe('withBatchedWrite (intake without an idempotency key)', () => {
   const step = (kind: string) => ({ kind, summary: `Step ${kind}`, actor: { type: 'system' as const, name: 'test' } });
 
-  // Every statement the pg driver is handed while `work` runs (TypeORM, named statements, pool queries).
-  async function statementsOf(work: () => Promise<unknown>): Promise<string[]> {
-    const seen: string[] = [];
-    const original = pg.Client.prototype.query;
-    pg.Client.prototype.query = function (this: pg.Client, ...args: unknown[]) {
-      const first = args[0] as string | { text: string };
-      seen.push((typeof first === 'string' ? first : first.text).trim());
-      return (original as (...a: unknown[]) => unknown).apply(this, args);
-    } as typeof original;
-    try {
-      await work();
-    } finally {
-      pg.Client.prototype.query = original;
-    }
-    return seen;
-  }
-
   it('opens a case with reads and one write, and no BEGIN or COMMIT', async () => {
     const { key } = await shop([]);
     // The key's first use writes its last_used_at (at most once a minute); that is not intake's write.
     expect((await request(app).get('/api/v1/me').set('Authorization', key)).status).toBe(200);
     let created: request.Response | undefined;
-    const statements = await statementsOf(async () => {
+    const { statements } = await statementsOf(async () => {
       created = await request(app).post('/api/v1/referrals').set('Authorization', key).send(body);
     });
     expect(created!.status).toBe(201);
@@ -232,7 +216,7 @@ describe('withBatchedWrite (intake without an idempotency key)', () => {
     const { key } = await shop([]);
     const kase = (await request(app).post('/api/v1/referrals').set('Authorization', key).send(body)).body as { id: string };
     const before = (await db.query(`SELECT count(*)::int AS n FROM referral_timeline WHERE referral_id = $1`, [kase.id]))[0].n as number;
-    const statements = await statementsOf(() =>
+    const { statements } = await statementsOf(() =>
       withBatchedWrite(db, async (manager) => {
         await manager.query(`SELECT 1`);
         await recordTimeline(manager, kase.id, step('note_a'));

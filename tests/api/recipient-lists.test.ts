@@ -1,10 +1,10 @@
-import pg from 'pg';
 import { describe, expect, it } from 'vitest';
 import type { EntityManager } from 'typeorm';
 import { readLabDirectory } from '../../server/routing/directory';
 import { labManagers, networkAdmins, shopUsers } from '../../server/routing/notify';
 import { setupApi } from '../support/api';
 import { createOrganization, createUser } from '../support/factories';
+import { statementsOf } from '../support/statements';
 
 // Who is e-mailed about offers is kept in memory and follows the database through
 // recipient_directory_version. Each check runs in a REPEATABLE READ transaction, so that files running
@@ -15,22 +15,6 @@ const lab = await createOrganization(db, 'lab');
 const manager = await createUser(db, { role: 'lab_manager', organizationId: lab.id });
 const shop = await createOrganization(db, 'partner');
 const staff = await createUser(db, { role: 'partner_staff', organizationId: shop.id });
-
-/** The statements the pg driver is handed while `work` runs. */
-async function statementsOf<T>(work: () => Promise<T>): Promise<{ result: T; statements: string[] }> {
-  const statements: string[] = [];
-  const original = pg.Client.prototype.query;
-  pg.Client.prototype.query = function (this: pg.Client, ...args: unknown[]) {
-    const first = args[0] as string | { text: string };
-    statements.push((typeof first === 'string' ? first : first.text).trim());
-    return (original as (...a: unknown[]) => unknown).apply(this, args);
-  } as typeof original;
-  try {
-    return { result: await work(), statements };
-  } finally {
-    pg.Client.prototype.query = original;
-  }
-}
 
 /** Runs `work` in a transaction that is always undone, so nothing it changes reaches other files. */
 async function undone(work: (m: EntityManager) => Promise<void>): Promise<void> {

@@ -1,26 +1,7 @@
-import type { QueryClient } from '@tanstack/react-query';
-import { useSearchParams } from 'react-router';
-import { PageHeader } from '@/components/layouts/page-header';
-import { getEarningsQueryOptions } from '@/features/earnings/api/get-earnings';
-import { EarningsOverview } from '@/features/earnings/components/earnings-overview';
-import { PayeeProvider } from '@/features/earnings/payee';
+import { EarningsPage, earningsLoader } from '@/features/earnings/components/earnings-page';
 
-export const clientLoader = (queryClient: QueryClient) => async () => {
-  // A failure here is shown by the page itself, with a retry, inside the portal.
-  await queryClient.ensureQueryData(getEarningsQueryOptions('partner')).catch(() => undefined);
-  return null;
-};
+export const clientLoader = earningsLoader('partner');
 
-export default function EarningsPage() {
-  const [params] = useSearchParams();
-  const back = params.get('payouts');
-  return (
-    <PayeeProvider payee="partner">
-      <PageHeader
-        title="Earnings"
-        description="Commission on every paid recovery you referred, settled once a month to your payout account."
-      />
-      <EarningsOverview returned={back === 'returned' || back === 'refresh' ? back : null} />
-    </PayeeProvider>
-  );
+export default function PartnerEarningsPage() {
+  return <EarningsPage payee="partner" description="Commission on every paid recovery you referred, settled once a month to your payout account." />;
 }
