@@ -92,6 +92,18 @@ describe('SHA-256 under the custody chain', () => {
 });
 
 describe('appendCustody and GET /api/referrals/:id/custody', () => {
+  it('carries the demo cases at the lab from the shop’s packing to check-in, intact', async () => {
+    const [demo] = await db.query(`SELECT id FROM referrals WHERE customer_email = 'corinne.adebayomarsh@customer.example' ORDER BY created_at LIMIT 1`);
+    expect(demo).toBeDefined();
+    const res = await request(app).get(`/api/referrals/${demo.id}/custody`).set(auth(network));
+    expect(res.status).toBe(200);
+    const log = custodyLogDto.parse(res.body);
+    expect(log.entries.slice(0, 4).map((e) => e.action)).toEqual(['packed_by_shop', 'handed_to_carrier', 'delivered', 'checked_in']);
+    expect(log.verification).toEqual({ intact: true });
+    const times = log.entries.map((e) => Date.parse(e.at));
+    expect(times).toEqual([...times].sort((x, y) => x - y));
+  });
+
   it('chains each entry to the one before: hash = SHA-256(previous hash + canonical entry), recomputed here with node:crypto', async () => {
     const world = await makeWorld();
     const c = await receivedCase(ctx, world);

@@ -7,6 +7,7 @@ import { evaluationInput, sendQuoteInput } from '@shared/schemas/lab-work';
 import { User } from '../../auth';
 import type { Config } from '../../config';
 import { CustomerLink, hashCustomerToken } from '../../customer-link';
+import { appendCustody, organizationPlace } from '../../custody';
 import type { ServiceContext } from '../../lib/context';
 import { openReferral } from '../../referrals';
 import { acceptInTransaction, assignInTransaction, LabOffer, loadLabs, lockReferral, recordTimeline, withdrawPendingOffer } from '../../routing';
@@ -273,6 +274,20 @@ export async function seedDemoLabWork(manager: EntityManager, orgIds: Map<string
     await manager.query(`UPDATE lab_offers SET created_at = offered_at, updated_at = coalesce(responded_at, offered_at) WHERE referral_id = $1`, [id]);
 
     const arrived = at(2 * D);
+    // The device's custody up to the lab's bench, as the shipping and check-in flows would have logged it.
+    const before = (minutes: number) => new Date(arrived.getTime() - minutes * 60_000);
+    const shopPlace = await organizationPlace(manager, orgIds.get(demo.shop)!);
+    const tracking = { trackingCode: `BW${referral.reference.replace(/-/g, '')}` };
+    await appendCustody(manager, id, { action: 'packed_by_shop', actor: { type: 'user', id: opener.id, name: opener.name }, location: shopPlace, at: before(44 * 60), details: tracking });
+    await appendCustody(manager, id, { action: 'handed_to_carrier', actor: { type: 'carrier', id: null, name: 'Brambleway' }, location: shopPlace, at: before(42 * 60), details: tracking });
+    await appendCustody(manager, id, { action: 'delivered', actor: { type: 'carrier', id: null, name: 'Brambleway' }, location: await organizationPlace(manager, labId), at: before(40), details: tracking });
+    await appendCustody(manager, id, {
+      action: 'checked_in',
+      actor: { type: 'user', id: clerk.id, name: clerk.name },
+      location: await organizationPlace(manager, labId, 'Receiving'),
+      at: arrived,
+      details: { boxCondition: 'intact', contentsMatch: true, outcome: 'received' },
+    });
     await manager.query(`UPDATE referrals SET status = 'received' WHERE id = $1`, [id]);
     await recordTimeline(manager, id, {
       kind: 'checked_in',
