@@ -205,5 +205,10 @@ describe('periods', () => {
     expect(formatBasisPoints(1250)).toBe('12.5 %');
     expect(formatBasisPoints(1000)).toBe('10 %');
     expect(formatBasisPoints(1234)).toBe('12.34 %');
+    // Rates whose (bp / 10 000) × 100 is not exact in binary floating point.
+    expect(formatBasisPoints(1400)).toBe('14 %');
+    expect(formatBasisPoints(700)).toBe('7 %');
+    expect(formatBasisPoints(1225)).toBe('12.25 %');
+    expect(formatBasisPoints(5)).toBe('0.05 %');
   });
 });

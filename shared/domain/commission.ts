@@ -204,8 +204,9 @@ export function previousPeriod(at: Date): string {
 
 /** Basis points as a percentage for people: 1250 → "12.5 %". */
 export function formatBasisPoints(basisPoints: number): string {
-  const percent = (basisPoints / BASIS_POINTS_PER_WHOLE) * 100;
-  return `${Number.isInteger(percent) ? percent : percent.toFixed(2).replace(/0+$/, '')} %`;
+  // Divided once, by 100: (bp / 10 000) × 100 leaves float noise (1400 → 14.000000000000002).
+  const percent = basisPoints / (BASIS_POINTS_PER_WHOLE / 100);
+  return `${Number.isInteger(percent) ? percent : percent.toFixed(2).replace(/\.?0+$/, '')} %`;
 }
 
 /** A period for people: "2025-11" → "November 2025" (long) or "Nov" (short, for chart labels). */

@@ -56,6 +56,8 @@ export const networkKeys = {
   attention: () => [...networkKeys.all, 'attention'] as const,
   labs: () => [...networkKeys.all, 'labs'] as const,
   labList: (filters: { skill?: string } = {}) => [...networkKeys.labs(), filters] as const,
+  commissionPlans: () => [...networkKeys.all, 'commission-plans'] as const,
+  partners: () => [...networkKeys.all, 'partners'] as const,
 };
 
 export const apiKeyKeys = {

@@ -1,0 +1,63 @@
+import { z } from 'zod';
+import { BASIS_POINTS_PER_WHOLE } from '@shared/domain/money';
+import { commissionTiersSchema, type CommissionPlanDto, type CommissionPlanInput } from '@shared/schemas/money';
+
+// The plan form speaks in percent (12.5), the API in basis points (1250). The tier rules (first tier at
+// 0, thresholds rising) are the shared schema's, run on the converted tiers so the form and the server
+// can never disagree.
+
+const toBasisPoints = (percent: number) => Math.round((percent * BASIS_POINTS_PER_WHOLE) / 100);
+const toPercent = (basisPoints: number) => (basisPoints * 100) / BASIS_POINTS_PER_WHOLE;
+
+const percent = (what: string) =>
+  z.coerce
+    .number({ message: `${what} must be a number` })
+    .min(0, `${what} cannot be negative`)
+    .max(50, `${what} can be at most 50 %`)
+    .refine((v) => Math.abs(v * 100 - Math.round(v * 100)) < 1e-9, `${what} takes at most two decimals (12.25)`);
+
+export const planFormSchema = z
+  .object({
+    name: z.string().trim().min(1, 'Give the plan a name').max(80, 'At most 80 characters'),
+    networkFeePercent: percent('The network fee'),
+    tiers: z
+      .array(
+        z.object({
+          minPaidReferrals: z.coerce.number({ message: 'Paid referrals must be a number' }).int('Paid referrals must be a whole number').min(0, 'Paid referrals cannot be negative'),
+          percent: percent('The rate'),
+        }),
+      )
+      .min(1, 'A plan needs at least one tier')
+      .max(10, 'A plan has at most 10 tiers'),
+    isDefault: z.boolean().default(false),
+  })
+  .superRefine((values, ctx) => {
+    const checked = commissionTiersSchema.safeParse(values.tiers.map((t) => ({ minPaidReferrals: t.minPaidReferrals, basisPoints: toBasisPoints(t.percent) })));
+    if (checked.success) return;
+    for (const issue of checked.error.issues) {
+      const path = issue.path.map((p) => (p === 'basisPoints' ? 'percent' : p));
+      ctx.addIssue({ code: 'custom', path: ['tiers', ...path], message: issue.message });
+    }
+  });
+
+export type PlanFormInput = z.input<typeof planFormSchema>;
+export type PlanFormValues = z.output<typeof planFormSchema>;
+
+export function planInputFrom(values: PlanFormValues): CommissionPlanInput {
+  return {
+    name: values.name,
+    networkFeeBasisPoints: toBasisPoints(values.networkFeePercent),
+    tiers: values.tiers.map((t) => ({ minPaidReferrals: t.minPaidReferrals, basisPoints: toBasisPoints(t.percent) })),
+    isDefault: values.isDefault,
+  };
+}
+
+export function planFormValuesFrom(plan: CommissionPlanDto | null): PlanFormInput {
+  if (!plan) return { name: '', networkFeePercent: 8, tiers: [{ minPaidReferrals: 0, percent: 10 }], isDefault: false };
+  return {
+    name: plan.name,
+    networkFeePercent: toPercent(plan.networkFeeBasisPoints),
+    tiers: plan.tiers.map((t) => ({ minPaidReferrals: t.minPaidReferrals, percent: toPercent(t.basisPoints) })),
+    isDefault: plan.isDefault,
+  };
+}
