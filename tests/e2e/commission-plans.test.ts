@@ -1,7 +1,6 @@
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
-import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { appUrl, browserPages, signIn } from '../support/browser';
 
 // The network admin's partners page: a new commission plan through the form (its tier rules checked as
 // the admin types), an edit, and a shop moved onto the plan and back. The plan is this test's own; the
@@ -10,24 +9,7 @@ import { appUrl, launchBrowser, signIn } from '../support/browser';
 const NETWORK_ADMIN = 'ines.albright@platterpost.example';
 const SHOP = 'Kettle Creek Computers';
 
-let browser: Browser;
-const contexts: BrowserContext[] = [];
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-afterEach(async () => {
-  for (const c of contexts.splice(0)) await c.close();
-});
-
-async function freshPage(): Promise<Page> {
-  const context = await browser.newContext();
-  contexts.push(context);
-  return context.newPage();
-}
+const freshPage = browserPages();
 
 describe('commission plans', () => {
   it('creates a plan, refuses tiers out of order, edits it and puts a shop on it', async () => {

@@ -1,7 +1,6 @@
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
-import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { appUrl, browserPages, signIn } from '../support/browser';
 
 // The lab's own earnings page: its share of the recoveries its customers paid for (invented demo data,
 // server/db/seed/demo-money.ts), each line linked to the lab's view of the case, and its payout account.
@@ -10,24 +9,7 @@ import { appUrl, launchBrowser, signIn } from '../support/browser';
 const LAB_MANAGER = 'rosa.quintero@quillmark.example';
 const TECHNICIAN = 'sam.idowu@quillmark.example';
 
-let browser: Browser;
-const contexts: BrowserContext[] = [];
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-afterEach(async () => {
-  for (const c of contexts.splice(0)) await c.close();
-});
-
-async function freshPage(): Promise<Page> {
-  const context = await browser.newContext();
-  contexts.push(context);
-  return context.newPage();
-}
+const freshPage = browserPages();
 
 describe('lab earnings', () => {
   it('shows the lab manager the lab’s share, its lines linked to the lab’s cases, and the payout account', async () => {

@@ -1,12 +1,12 @@
 import AxeBuilder from '@axe-core/playwright';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { demoAccounts, DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
 import { demoApiKeyValues } from '../../server/db/seed/demo-api-keys';
 import { demoExtraStaff, demoOrganizations } from '../../server/db/seed/demo-data';
 import { caseStatusLabels } from '@shared/vocabulary';
 import { unique } from '../support/api';
-import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { appUrl, browserPages, signIn } from '../support/browser';
 
 // A shop clerk opens a referral at the counter, the lab it is offered to accepts it, and the shop
 // sees the answer. Everything is asserted as a person sees it: headings, labels, list items, text.
@@ -22,26 +22,7 @@ function managerOf(labName: string): { email: string; name: string } {
   return manager;
 }
 
-let browser: Browser;
-const contexts: BrowserContext[] = [];
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterEach(async () => {
-  await Promise.all(contexts.splice(0).map((c) => c.close()));
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function freshPage(): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1360, height: 900 } });
-  contexts.push(context);
-  return context.newPage();
-}
+const freshPage = browserPages({ viewport: { width: 1360, height: 900 } });
 
 async function seesHeading(p: Page, name: string | RegExp): Promise<void> {
   await p.getByRole('heading', { level: 1, name }).waitFor({ state: 'visible' });

@@ -1,9 +1,9 @@
 import { readFile } from 'node:fs/promises';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, inject, it } from 'vitest';
 import { formatPeriod, previousPeriod } from '@shared/domain/commission';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
-import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { appUrl, browserPages, signIn } from '../support/browser';
 
 // The monthly settlement in the browser: the shop admin sets up a payout account on the payment
 // provider's hosted page (our fake), the network admin settles last month, and the shop admin sees the
@@ -15,24 +15,7 @@ const shopAdmin = 'maya.ferrante@juniperlane.example';
 const networkAdmin = 'ines.albright@platterpost.example';
 const lastMonth = previousPeriod(new Date());
 
-let browser: Browser;
-const contexts: BrowserContext[] = [];
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-afterEach(async () => {
-  for (const c of contexts.splice(0)) await c.close();
-});
-
-async function freshPage(): Promise<Page> {
-  const context = await browser.newContext({ acceptDownloads: true });
-  contexts.push(context);
-  return context.newPage();
-}
+const freshPage = browserPages({ acceptDownloads: true });
 
 async function seesHeading(p: Page, name: string) {
   await p.getByRole('heading', { level: 1, name, exact: true }).waitFor({ state: 'visible' });

@@ -1,5 +1,5 @@
-import { inject } from 'vitest';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, afterEach, beforeAll, inject } from 'vitest';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
 
 // Debian's Chromium, never a downloaded browser. Background networking is off because
 // the machines running the suite have no network beyond loopback.
@@ -20,4 +20,27 @@ export async function signIn(page: Page, email: string, password: string): Promi
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/**
+ * One browser for the test file and a fresh context (cookies, storage) per page, closed after each test.
+ * Call at the top of the file; the function it returns opens a page.
+ */
+export function browserPages(options: BrowserContextOptions = {}): () => Promise<Page> {
+  let browser: Browser | undefined;
+  const contexts: BrowserContext[] = [];
+  beforeAll(async () => {
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+  afterEach(async () => {
+    for (const c of contexts.splice(0)) await c.close();
+  });
+  return async () => {
+    const context = await browser!.newContext(options);
+    contexts.push(context);
+    return context.newPage();
+  };
 }
