@@ -24,7 +24,7 @@ import { enqueueEmailToUser } from '../notifications';
 import { Organization } from '../organizations';
 import { addTimelineEntry, lockReferral, Referral, type TimelineActor } from '../referrals';
 import { appendCustody, organizationPlace } from '../custody';
-import { LabOffer, routeAndOffer } from '../routing';
+import { LabOffer, routeAndOffer, shopUsers } from '../routing';
 import {
   checkInSummary,
   deviceLine,
@@ -475,12 +475,8 @@ export async function declineAfterArrival(ctx: ServiceContext, actor: Actor, ref
       details: { transferId: transfer.id, reason: input.reason, note: input.note ?? null },
     });
     const outcome = await routeAndOffer(ctx, manager, referral, { trigger: 'reoffer', now });
-    const shopPeople: { email: string; name: string }[] = await manager.query(
-      `SELECT email, name FROM users WHERE organization_id = $1 AND role IN ('partner_admin', 'partner_staff') AND status = 'active' ORDER BY email`,
-      [referral.partnerOrganizationId],
-    );
-    for (const person of shopPeople) {
-      await enqueueEmailToUser(manager, { email: person.email }, 'case_transfer', {
+    for (const person of await shopUsers(manager, referral.partnerOrganizationId)) {
+      await enqueueEmailToUser(manager, { known: person }, 'case_transfer', {
         name: person.name,
         reference: referral.reference,
         fromLab: lab.name,

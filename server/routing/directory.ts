@@ -62,6 +62,13 @@ export function primeLabDirectory(manager: EntityManager, row: DirectoryReadingR
   primed.set(manager, row);
 }
 
+/** The primed reading, once: a second ranking in the same work reads afresh. */
+function takePrimed(manager: EntityManager): DirectoryReadingRow | undefined {
+  const row = primed.get(manager);
+  primed.delete(manager);
+  return row;
+}
+
 function build(version: string, labs: LoadedLab[]): LabDirectory {
   const byId = new Map(labs.map((l) => [l.id, l]));
   const unroutable: ExcludedDto[] = [];
@@ -80,16 +87,14 @@ function build(version: string, labs: LoadedLab[]): LabDirectory {
 
 /** The directory as of this statement, and each lab's open cases now. Reads the labs again only when they changed. */
 export async function readLabDirectory(manager: EntityManager): Promise<DirectoryReading> {
-  let row = primed.get(manager);
-  if (row) primed.delete(manager);
-  else [row] = await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, [...DIRECTORY_READING_PARAMS]);
-  sawRecipientVersion(manager, row!.directory_recipients_version);
-  const openCases = new Map(Object.entries(row!.directory_open_cases));
+  const row = takePrimed(manager) ?? (await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, [...DIRECTORY_READING_PARAMS]))[0]!;
+  sawRecipientVersion(manager, row.directory_recipients_version);
+  const openCases = new Map(Object.entries(row.directory_open_cases));
   const source = manager.connection;
   let directory = held.get(source);
-  if (!directory || directory.version !== row!.directory_version) {
+  if (!directory || directory.version !== row.directory_version) {
     const { labs, version } = await loadLabsWithVersion(manager);
-    directory = build(version ?? row!.directory_version, labs);
+    directory = build(version ?? row.directory_version, labs);
     held.set(source, directory);
   }
   return { directory, openCases };

@@ -3,7 +3,7 @@ import { useFieldArray } from 'react-hook-form';
 import { formatBasisPoints } from '@shared/domain/commission';
 import type { CommissionPlanDto } from '@shared/schemas/money';
 import { PanelError } from '@/components/errors/error-panel';
-import { Form } from '@/components/form/form';
+import { Form, type FormMethods } from '@/components/form/form';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
@@ -68,7 +68,7 @@ function PlanDialog({ plan, open, onClose }: { plan: CommissionPlanDto | null; o
   );
 }
 
-function PlanFields({ form, lockedDefault }: { form: Parameters<Parameters<typeof Form<typeof planFormSchema>>[0]['children']>[0]; lockedDefault: boolean }) {
+function PlanFields({ form, lockedDefault }: { form: FormMethods<typeof planFormSchema>; lockedDefault: boolean }) {
   const { register, control, formState } = form;
   const { fields, append, remove } = useFieldArray({ control, name: 'tiers' });
   const errors = formState.errors;
@@ -102,7 +102,7 @@ function PlanFields({ form, lockedDefault }: { form: Parameters<Parameters<typeo
         </ol>
         {fields.length < 10 ? (
           <div>
-            <Button size="sm" variant="secondary" onClick={() => append({ minPaidReferrals: '' as never, percent: '' as never })}>
+            <Button size="sm" variant="secondary" onClick={() => append({ minPaidReferrals: '', percent: '' })}>
               Add a tier
             </Button>
           </div>
