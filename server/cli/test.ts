@@ -5,11 +5,13 @@ import path from 'node:path';
 import pg from 'pg';
 import { buildClientIfStale } from './lib/build';
 import { ensureCluster, ensureDatabase } from './lib/postgres';
-import { ProcessGroup, waitForHttp } from './lib/stack';
+import { freePort, ProcessGroup, waitForHttp } from './lib/stack';
 
 // `npm test [-- vitest args]`: a throwaway PostgreSQL cluster, migrated and seeded, the client
 // built for the browser tests, then Vitest; everything it started is gone when it ends.
-const port = Number(process.env.TEST_PG_PORT ?? 54330);
+// Ports the OS says are free unless given: fixed ones sit in the ephemeral range, where an outgoing
+// connection (a package download, say) can hold one when the run starts.
+const port = Number(process.env.TEST_PG_PORT ?? (await freePort()));
 const dataDir = mkdtempSync(path.join(os.tmpdir(), 'platterpost-test-'));
 chmodSync(dataDir, 0o755);
 const cluster = ensureCluster({
@@ -21,8 +23,8 @@ const cluster = ensureCluster({
 
 // One mail fake for every suite: the API tests' workers and the browser suite's server share the
 // database, so any of them may send a given outbox message; all must reach the same inbox.
-const mailSmtpPort = Number(process.env.TEST_MAIL_SMTP_PORT ?? port + 1);
-const mailHttpPort = Number(process.env.TEST_MAIL_HTTP_PORT ?? port + 2);
+const mailSmtpPort = Number(process.env.TEST_MAIL_SMTP_PORT ?? (await freePort()));
+const mailHttpPort = Number(process.env.TEST_MAIL_HTTP_PORT ?? (await freePort()));
 const group = new ProcessGroup((name, exitCode) => console.error(`[test] ${name} exited early (code ${exitCode})`));
 
 let code = 1;

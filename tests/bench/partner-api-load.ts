@@ -1,27 +1,18 @@
 import { spawn, spawnSync } from 'node:child_process';
 import { chmodSync, mkdtempSync, rmSync } from 'node:fs';
-import { createServer as createNetServer } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import express from 'express';
 import pg from 'pg';
 import { ensureCluster, ensureDatabase } from '../../server/cli/lib/postgres';
-import { serverNodeOptions } from '../../server/cli/lib/stack';
+import { freePort, serverNodeOptions } from '../../server/cli/lib/stack';
 import { demoApiKeyValues } from '../../server/db/seed/demo-api-keys';
 
 // POST /api/v1/referrals under load (issue target: ≥ 300 requests/s with p99 ≤ 150 ms, 50 connections
 // for 10 s, 2 cores), against the real server process on a throwaway PostgreSQL with the demo network;
 // and, as the yardstick, a bare Express route that does one INSERT, measured the same way.
 const tsx = path.join('node_modules', 'tsx', 'dist', 'cli.mjs');
-
-const freePort = () =>
-  new Promise<number>((resolve) => {
-    const s = createNetServer().listen(0, '127.0.0.1', () => {
-      const { port } = s.address() as { port: number };
-      s.close(() => resolve(port));
-    });
-  });
 
 function run(url: string, options: Partial<autocannon.Options>): Promise<autocannon.Result> {
   return new Promise((resolve, reject) => {

@@ -1,19 +1,8 @@
 import { spawn } from 'node:child_process';
-import { createServer } from 'node:net';
 import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { createPaymentsFake } from '../../fakes/payments/payments-fake';
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = createServer();
-    srv.listen(0, '127.0.0.1', () => {
-      const { port } = srv.address() as { port: number };
-      srv.close(() => resolve(port));
-    });
-    srv.on('error', reject);
-  });
-}
+import { freePort } from '../../server/cli/lib/stack';
 
 // The browser suite drives the real server process serving the built client.
 export default async function setup(project: TestProject) {

@@ -1,5 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync } from 'node:fs';
+import { createServer } from 'node:net';
 import path from 'node:path';
 import { ensureCluster, ensureDatabase, type Cluster } from './postgres';
 
@@ -14,6 +15,21 @@ export const SERVER_NODE_OPTIONS = '--max-semi-space-size=32';
 
 /** NODE_OPTIONS for a server process: the caller's own, then ours. */
 export const serverNodeOptions = (existing: string | undefined): string => [existing, SERVER_NODE_OPTIONS].filter(Boolean).join(' ');
+
+/**
+ * A loopback port that is free now, chosen by the OS. Throwaway services (tests, benches) use it
+ * instead of a fixed port: fixed ones in the ephemeral range can be held by an outgoing connection.
+ */
+export function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const srv = createServer();
+    srv.listen(0, '127.0.0.1', () => {
+      const { port } = srv.address() as { port: number };
+      srv.close(() => resolve(port));
+    });
+    srv.on('error', reject);
+  });
+}
 
 export interface StackPorts {
   app: number;
