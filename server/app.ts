@@ -64,7 +64,8 @@ export function createApp({ config, db }: AppDeps): Express {
     }),
   );
   // No CORS middleware: the API answers its own origin only (closed by default).
-  app.use(cookieParser());
+  // Only the session routes read cookies (the refresh cookie); the partner API and the rest do not.
+  app.use('/api/auth', cookieParser());
   // The shipping service signs the bytes it sends: its webhook keeps the raw body.
   app.use('/api/webhooks/shipping', express.raw({ type: () => true, limit: '1mb' }));
   // The payment provider signs the exact bytes it sends: its webhook reads the raw body, before the JSON parser.

@@ -96,8 +96,8 @@ export const newRowId = (): string => randomUUID();
 export async function insertRow<T extends object>(manager: EntityManager, target: new () => T, entity: T): Promise<T> {
   const buffer = appendBufferOf(manager);
   if (!buffer) return manager.save(entity);
-  for (const column of manager.connection.getMetadata(target).columns) {
-    if (column.getEntityValue(entity) === undefined) throw new Error(`insertRow: ${target.name}.${column.propertyName} has no value`);
+  for (const column of columnsOf(manager, target)) {
+    if (column.read(entity) === undefined) throw new Error(`insertRow: ${target.name}.${column.propertyName} has no value`);
   }
   buffer.rows.push({ target, entity });
   return entity;
@@ -240,10 +240,41 @@ export function collectRowsOf(target: Function): void {
   if (!entityTargets.includes(target)) entityTargets.push(target);
 }
 
+interface ColumnReader {
+  databaseName: string;
+  propertyName: string;
+  read(entity: object): unknown;
+}
+
+const columnReaders = new WeakMap<object, Map<Function, ColumnReader[]>>();
+
+/**
+ * An entity table's columns with a reader each, built once per schema: a plain column is read as the
+ * property itself, which is what TypeORM's getEntityValue does for it, without its general path.
+ */
+function columnsOf(manager: EntityManager, target: Function): ColumnReader[] {
+  let byTarget = columnReaders.get(manager.connection);
+  if (!byTarget) columnReaders.set(manager.connection, (byTarget = new Map()));
+  let readers = byTarget.get(target);
+  if (!readers) {
+    readers = manager.connection.getMetadata(target).columns.map((column) => {
+      const plain = !column.embeddedMetadata && !column.relationMetadata && !column.referencedColumn;
+      const property = column.propertyName;
+      return {
+        databaseName: column.databaseName,
+        propertyName: property,
+        read: plain ? (entity: object) => (entity as Record<string, unknown>)[property] : (entity: object) => column.getEntityValue(entity),
+      };
+    });
+    byTarget.set(target, readers);
+  }
+  return readers;
+}
+
 function rowJson(manager: EntityManager, target: Function, entity: object): Record<string, unknown> {
   const out: Record<string, unknown> = {};
-  for (const column of manager.connection.getMetadata(target).columns) {
-    const value = column.getEntityValue(entity);
+  for (const column of columnsOf(manager, target)) {
+    const value = column.read(entity);
     out[column.databaseName] = value instanceof Date ? value.toISOString() : value;
   }
   return out;

@@ -27,19 +27,25 @@ export interface DirectoryReading {
 
 const held = new WeakMap<DataSource, LabDirectory>();
 
+// The open statuses go into the text as literals, not as a parameter: with an array parameter
+// PostgreSQL cannot tell how many cases it matches, judges the kept (generic) plan dearer and plans
+// the statement afresh on every request; with literals the kept plan is used.
+const openStatusList = LAB_OPEN_STATUSES.map((s) => {
+  if (!/^[a-z_]+$/.test(s)) throw new Error(`not a status: ${s}`);
+  return `'${s}'`;
+}).join(', ');
+
 /**
- * What every ranking reads fresh, as select-list items (each aliased `directory_*`; $1 is the open
- * statuses): the two versions and each lab's open cases. The partner API reads them in the statement
- * that looks up the key (see primeLabDirectory).
+ * What every ranking reads fresh, as select-list items (each aliased `directory_*`, no parameters):
+ * the two versions and each lab's open cases. The partner API reads them in the statement that looks
+ * up the key (see primeLabDirectory).
  */
 export const DIRECTORY_READING_COLUMNS = `
   (SELECT version::text FROM lab_directory_version) AS directory_version,
   (SELECT version::text FROM recipient_directory_version) AS directory_recipients_version,
   coalesce((SELECT json_object_agg(lab_organization_id, n) FROM (
     SELECT lab_organization_id, count(*)::int AS n FROM referrals
-    WHERE lab_organization_id IS NOT NULL AND status = ANY($1::text[]) GROUP BY lab_organization_id) c), '{}'::json) AS directory_open_cases`;
-
-export const DIRECTORY_READING_PARAMS: readonly unknown[] = [LAB_OPEN_STATUSES];
+    WHERE lab_organization_id IS NOT NULL AND status IN (${openStatusList}) GROUP BY lab_organization_id) c), '{}'::json) AS directory_open_cases`;
 
 /** The row those columns make. */
 export interface DirectoryReadingRow {
@@ -87,7 +93,7 @@ function build(version: string, labs: LoadedLab[]): LabDirectory {
 
 /** The directory as of this statement, and each lab's open cases now. Reads the labs again only when they changed. */
 export async function readLabDirectory(manager: EntityManager): Promise<DirectoryReading> {
-  const row = takePrimed(manager) ?? (await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, [...DIRECTORY_READING_PARAMS]))[0]!;
+  const row = takePrimed(manager) ?? (await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, []))[0]!;
   sawRecipientVersion(manager, row.directory_recipients_version);
   const openCases = new Map(Object.entries(row.directory_open_cases));
   const source = manager.connection;

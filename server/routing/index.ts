@@ -3,7 +3,7 @@ export { routingRoutes } from './routes';
 export { registerRoutingJobs } from './jobs';
 export { loadLabs, LAB_OPEN_STATUSES, type LoadedLab } from './labs';
 export { rankLabs, noCandidateReason, RANKED_SHOWN, type CaseForRouting, type Ranking } from './ranking';
-export { primeLabDirectory, DIRECTORY_READING_COLUMNS, DIRECTORY_READING_PARAMS, type DirectoryReadingRow } from './directory';
+export { primeLabDirectory, DIRECTORY_READING_COLUMNS, type DirectoryReadingRow } from './directory';
 export { labManagers, networkAdmins, shopUsers, type Recipient } from './notify';
 export { lookupPostalCode, resolvePostalCode, type Place } from './places';
 export { recordTimeline, routingActor, type TimelineActor, type TimelineInput } from './timeline';

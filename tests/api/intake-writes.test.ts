@@ -7,6 +7,7 @@ import { appendBufferOf, insertRow, updateRow, withBatchedAppends, withBatchedWr
 import { LabOffer } from '../../server/routing';
 import { createDataSource, runMigrations } from '../../server/db/data-source';
 import { createReferral, getReferral } from '../../server/referrals';
+import { findActiveKey } from '../../server/partner-api/api-keys';
 import { enqueueEmail } from '../../server/notifications';
 import { recordTimeline } from '../../server/routing/timeline';
 import { setupApi, signIn, unique } from '../support/api';
@@ -272,6 +273,26 @@ describe('the answer to intake on a network without labs', () => {
       await empty.destroy();
       await admin.query(`DROP DATABASE ${name}`);
       await admin.end();
+    }
+  });
+});
+
+describe('the key statement intake sends on every request', () => {
+  it('is planned once and its kept plan reused, not planned again for each request', async () => {
+    // PostgreSQL plans a prepared statement five times, then keeps a generic plan only if it
+    // does not look dearer than those (see PREPARE in the PostgreSQL manual); pg_prepared_statements
+    // counts both kinds for the session, so one connection is used.
+    const { key } = await shop([]);
+    const single = createDataSource({ url: (db.options as { url: string }).url, poolSize: 1 });
+    await single.initialize();
+    try {
+      const ctx = { db: single, config: loadConfig({ NODE_ENV: 'test', DATABASE_URL: 'postgres://unused/none', APP_URL: 'http://app.test' }) };
+      for (let i = 0; i < 8; i++) expect(await findActiveKey(ctx, key.slice('Bearer '.length), { withDirectoryReading: true })).not.toBeNull();
+      const [plans] = await single.query(`SELECT generic_plans::int AS generic, custom_plans::int AS custom FROM pg_prepared_statements WHERE name = 'api-keys.find-active-with-directory'`);
+      expect(plans.generic).toBeGreaterThanOrEqual(3);
+      expect(plans.custom).toBeLessThanOrEqual(5);
+    } finally {
+      await single.destroy();
     }
   });
 });
