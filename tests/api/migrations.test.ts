@@ -42,4 +42,17 @@ describe('migrations', () => {
     expect(second).toEqual([]);
     expect(await schemaSnapshot()).toEqual(afterFirst);
   });
+
+  it('stores the wide values intake writes with LZ4 (Debian builds PostgreSQL with it)', async () => {
+    const rows: { col: string; method: string }[] = await db.query(
+      `SELECT attrelid::regclass::text || '.' || attname AS col, attcompression AS method FROM pg_attribute
+       WHERE attcompression <> '' ORDER BY 1`,
+    );
+    // 'l' is LZ4 in pg_attribute.attcompression (PostgreSQL manual, "pg_attribute").
+    expect(rows).toEqual(
+      ['outbox_messages.html_body', 'outbox_messages.text_body', 'referral_timeline.details', 'referrals.triage', 'routing_snapshots.candidates', 'routing_snapshots.excluded'].map(
+        (col) => ({ col, method: 'l' }),
+      ),
+    );
+  });
 });

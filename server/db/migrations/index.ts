@@ -11,5 +11,6 @@ import { LedgerAndCommissions1765411200000 } from './1765411200000-ledger-and-co
 import { LabDirectoryVersion1765843200000 } from './1765843200000-lab-directory-version';
 import { DeferredSnapshotLink1765929600000 } from './1765929600000-deferred-snapshot-link';
 import { RecipientDirectoryVersion1766016000000 } from './1766016000000-recipient-directory-version';
+import { Lz4Compression1766102400000 } from './1766102400000-lz4-compression';
 
-export const migrations = [Foundation1764633600000, PartnerApi1764892800000, ReferralsAndRouting1764979200000, ReferralPhotos1765065600000, PartnerWebhooks1765152000000, Shipping1765238400000, LedgerAndCommissions1765411200000, LabWork1765584000000, CustodyAndDisposition1765756800000, LabDirectoryVersion1765843200000, DeferredSnapshotLink1765929600000, RecipientDirectoryVersion1766016000000];
+export const migrations = [Foundation1764633600000, PartnerApi1764892800000, ReferralsAndRouting1764979200000, ReferralPhotos1765065600000, PartnerWebhooks1765152000000, Shipping1765238400000, LedgerAndCommissions1765411200000, LabWork1765584000000, CustodyAndDisposition1765756800000, LabDirectoryVersion1765843200000, DeferredSnapshotLink1765929600000, RecipientDirectoryVersion1766016000000, Lz4Compression1766102400000];
