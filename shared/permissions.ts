@@ -29,6 +29,8 @@ export const permissions = {
   'outbound.ship': ['shipping_clerk', 'lab_manager'],
   'bench.work': ['lab_technician', 'lab_manager'],
   'quotes.send': ['lab_manager'],
+  // Giving the customer back all or part of a card payment.
+  'refunds.issue': ['lab_manager'],
   // The lab's imaging tools post progress and manifests with keys the lab manager creates.
   'lab-api-keys.manage': ['lab_manager'],
   // The customer's private link: the shop hands it over and may switch it off; the network may too.

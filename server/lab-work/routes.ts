@@ -18,6 +18,7 @@ import { reportImaging } from './imaging';
 import { createLabKey, labKeyOr, listLabKeys, revokeLabKey } from './lab-keys';
 import { confirmFiles, disputeFiles, uploadManifest } from './manifest';
 import { approveQuote, declineQuote, sendQuote, type CustomerMeta } from './quotes';
+import { refundCase } from './refunds';
 import type { Referral } from '../referrals/entities';
 import { getLabCase, getShopLabWork, listBench } from './views';
 
@@ -81,6 +82,12 @@ export function labWorkRoutes(ctx: ServiceContext, guard: Guard, storage: BlobSt
   router.post('/lab/cases/:id/quote', guard.authorize('quotes.send'), async (req, res) => {
     const { id } = parseInput(idParam, req.params);
     const caseId = await sendQuote(ctx, principalOf(req), id, req.body, { ip: req.ip });
+    res.status(201).json(await getLabCase(ctx, labOf(req), caseId));
+  });
+
+  router.post('/lab/cases/:id/refunds', guard.authorize('refunds.issue'), async (req, res) => {
+    const { id } = parseInput(idParam, req.params);
+    const caseId = await refundCase(ctx, principalOf(req), id, req.body, { ip: req.ip, idempotencyKey: req.header('idempotency-key') });
     res.status(201).json(await getLabCase(ctx, labOf(req), caseId));
   });
 

@@ -14,6 +14,7 @@ import { toEvaluationDto } from './evaluation';
 import { latestImaging, toImagingDto } from './imaging';
 import { currentManifest, toManifestDto } from './manifest';
 import { currentQuote, toQuoteDto } from './quotes';
+import { refundedMinorOf } from './refunds';
 
 // What each reader sees of the lab's work: the bench queue and case page for the lab, the shop's
 // panel, and the amounts on the case for every reader of referrals.
@@ -32,9 +33,11 @@ export function toTimelineEntryDto(e: TimelineEntry): TimelineEntryDto {
 export async function paymentOf(manager: EntityManager, referralId: string): Promise<PaymentDto> {
   const checkouts = await manager.find(CustomerCheckout, { where: { referralId }, order: { createdAt: 'DESC' } });
   const paid = checkouts.find((c) => c.status === 'paid');
-  if (paid) return { state: 'paid', amountMinor: paid.amountMinor, currency: paid.currency, paidAt: paid.paidAt!.toISOString(), lastFailure: null };
+  if (paid) {
+    return { state: 'paid', amountMinor: paid.amountMinor, currency: paid.currency, paidAt: paid.paidAt!.toISOString(), lastFailure: null, refundedMinor: await refundedMinorOf(manager, referralId) };
+  }
   const failure = checkouts.find((c) => c.lastFailure)?.lastFailure ?? null;
-  return { state: 'unpaid', amountMinor: null, currency: null, paidAt: null, lastFailure: failure };
+  return { state: 'unpaid', amountMinor: null, currency: null, paidAt: null, lastFailure: failure, refundedMinor: 0 };
 }
 
 export function toReturnAddressDto(a: CustomerReturnAddress): ReturnAddressDto {

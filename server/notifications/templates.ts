@@ -173,6 +173,17 @@ export const emailTemplates = {
       ],
     }),
   }),
+  customer_refund_issued: (d: { customerName: string; reference: string; amount: string; labName: string; reason: string }) => ({
+    subject: `Refund of ${d.amount} for case ${d.reference}`,
+    ...layout({
+      heading: 'Money on its way back to you',
+      paragraphs: [
+        `Hello ${d.customerName},`,
+        `${d.labName} has refunded ${d.amount} for case ${d.reference} to the card you paid with. The reason given: ${d.reason}.`,
+        'Your card issuer decides when it shows on your statement; it can take several business days.',
+      ],
+    }),
+  }),
   customer_files_ready: (d: { customerName: string; reference: string; labName: string; fileCount: string; url: string }) => ({
     subject: `Your recovered files are ready to review (case ${d.reference})`,
     ...layout({

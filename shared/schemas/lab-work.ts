@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { FileState } from '../domain/file-categories';
+import { formatMoney } from '../domain/money';
 import { batteryConditions, caseStatuses, labSkills, mediaTypes, priorityCategories, sensitivityFlags, symptoms } from '../vocabulary';
 import { cautionSchema, timelineEntryDto } from './referrals';
 
@@ -326,8 +327,58 @@ export const paymentDto = z.object({
   paidAt: z.string().nullable(),
   /** The last declined attempt, in the provider's words, while unpaid. */
   lastFailure: z.string().nullable(),
+  /** What has been given back to the customer so far (0 while unpaid). */
+  refundedMinor: z.number().int(),
 });
 export type PaymentDto = z.infer<typeof paymentDto>;
+
+// ---------------------------------------------------------------------------------------------------
+// Refund: the lab manager gives the customer back all or part of what was paid
+
+export const refundReasons = ['recovery_failed', 'partial_recovery', 'customer_request', 'charged_twice', 'other'] as const;
+export type RefundReason = (typeof refundReasons)[number];
+
+export const refundReasonLabels: Record<RefundReason, string> = {
+  recovery_failed: 'The files could not be recovered',
+  partial_recovery: 'Only part of what was promised was recovered',
+  customer_request: 'The customer asked for it',
+  charged_twice: 'The customer was charged twice',
+  other: 'Another reason (say which)',
+};
+
+export const refundInput = z
+  .object({
+    /** In cents; without it, everything not yet refunded. */
+    amountMinor: z.number({ message: 'Enter an amount' }).int('Whole cents').min(1, 'Refund at least one cent').optional(),
+    reason: z.enum(refundReasons, { message: `Choose one of: ${refundReasons.join(', ')}` }),
+    note: trimmed(500).optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (v.reason === 'other' && !v.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why the money goes back' });
+  });
+export type RefundInput = z.infer<typeof refundInput>;
+
+/** The manager's refund form, amounts typed in dollars; at most `leftMinor`, what has not been refunded yet. */
+export function refundFormSchema(leftMinor: number, currency: string) {
+  return z
+    .object({
+      amount: z.string().trim().regex(/^\d{1,6}(\.\d{1,2})?$/, 'Enter an amount in dollars, such as 120 or 120.50'),
+      reason: z.union([z.enum(refundReasons), z.literal('')]),
+      note: trimmed(500),
+    })
+    .superRefine((v, ctx) => {
+      const cents = dollarsToCents(v.amount);
+      if (cents !== null && cents < 1) ctx.addIssue({ code: 'custom', path: ['amount'], message: 'Refund at least one cent' });
+      if (cents !== null && cents > leftMinor) ctx.addIssue({ code: 'custom', path: ['amount'], message: `At most ${formatMoney(leftMinor, currency)} is left to refund` });
+      if (v.reason === '') ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Choose a reason' });
+      if (v.reason === 'other' && !v.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why the money goes back' });
+    });
+}
+export type RefundFormValues = z.input<ReturnType<typeof refundFormSchema>>;
+
+export function toRefundInput(values: z.output<ReturnType<typeof refundFormSchema>>): RefundInput {
+  return { amountMinor: dollarsToCents(values.amount)!, reason: values.reason as RefundReason, ...(values.note ? { note: values.note } : {}) };
+}
 
 export const returnAddressDto = z.object({
   name: z.string(),

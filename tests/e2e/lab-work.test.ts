@@ -10,7 +10,8 @@ import { insertQuillmarkCase } from '../support/e2e-cases';
 // A case through the lab's bench and the customer's page: the technician records the evaluation, the lab
 // manager sends the quote, the customer opens the e-mailed link, approves and pays on the payment
 // provider's page (the payments fake's hosted page), the technician reports imaging progress and uploads
-// the recovered-file list, and the customer confirms the files. Demo sign-ins: Quillmark Recovery Lab.
+// the recovered-file list, the customer confirms the files, and the lab manager refunds part of the
+// payment. Demo sign-ins: Quillmark Recovery Lab.
 const TECHNICIAN = 'sam.idowu@quillmark.example';
 const LAB_MANAGER = 'rosa.quintero@quillmark.example';
 
@@ -81,7 +82,7 @@ const manifest = [
 ].join('\n');
 
 describe('a case on the bench and on the customer’s page', () => {
-  it('evaluation, quote, approval and payment on the hosted page, imaging progress, the file list, and the customer confirming the files', async () => {
+  it('evaluation, quote, approval and payment on the hosted page, imaging progress, the file list, the customer confirming the files, and a partial refund', async () => {
     const customerEmail = `${unique('odile')}@customer.test`;
     const kase = await receivedCase(customerEmail);
 
@@ -152,6 +153,28 @@ describe('a case on the bench and on the customer’s page', () => {
     await customer.getByRole('progressbar', { name: 'Imaging progress' }).waitFor();
     await customer.getByRole('button', { name: 'Yes, what matters is there' }).click();
     await customer.getByText('You confirmed these files').waitFor();
+
+    // The lab manager gives part of the money back (only part of what was promised came back, say);
+    // the form refuses more than was paid before anything is sent.
+    await lab.reload();
+    const refunds = lab.locator('section', { has: lab.getByRole('heading', { name: 'Refunds', exact: true }) });
+    await refunds.getByText('Nothing has been refunded.').waitFor();
+    await refunds.getByRole('button', { name: 'Refund the customer' }).click();
+    const refund = lab.getByRole('form', { name: 'Refund' });
+    await refund.waitFor();
+    expect(await seriousViolations(lab)).toEqual([]);
+    await refund.getByLabel('Amount (USD)').fill('800');
+    await refund.getByLabel('Reason').selectOption('partial_recovery');
+    await refund.getByRole('button', { name: 'Refund $800.00' }).click();
+    await refund.getByText('At most $767.50 is left to refund').waitFor();
+    await refund.getByLabel('Amount (USD)').fill('50');
+    await refund.getByRole('button', { name: 'Refund $50.00' }).click();
+    await refunds.getByText('$50.00 refunded so far; $717.50 is left.').waitFor();
+    await lab.getByText(/^Refunded \$50\.00 to the customer's card\./).waitFor();
+    await customer.reload();
+    await customer.getByText(/\$50\.00 has been refunded to your card\./).waitFor();
+    const { rows: refunded } = await db.query(`SELECT details->>'amountMinor' AS amount FROM ledger_transactions WHERE kind = 'refund' AND referral_id = $1`, [kase.id]);
+    expect(refunded).toEqual([{ amount: '5000' }]);
 
     const { rows } = await db.query(`SELECT status FROM referrals WHERE id = $1`, [kase.id]);
     expect(rows[0].status).toBe('ready_for_review');

@@ -26,7 +26,8 @@ export function Table<Row>({ caption, captionHidden = true, columns, rows, rowKe
     return <div className="rounded-panel border border-dashed border-ink-line bg-paper px-5 py-8 text-center text-sm text-ink-muted">{empty}</div>;
   }
   return (
-    <div className="overflow-x-auto rounded-panel border border-ink-hairline bg-paper-raised">
+    // A table wider than the screen scrolls sideways; keyboard users reach that scroll by focusing it.
+    <div role="region" aria-label={caption} tabIndex={0} className="overflow-x-auto rounded-panel border border-ink-hairline bg-paper-raised">
       <table className="w-full border-collapse text-left text-sm">
         <caption className={captionHidden ? 'sr-only' : 'px-4 py-3 text-left font-semibold text-ink-strong'}>{caption}</caption>
         <thead className="bg-paper-sunken/60">

@@ -9,6 +9,7 @@ import { isApiError } from '@/lib/api-client';
 import { getLabCaseQueryOptions, useLabCase } from '@/features/bench/api/get-lab-case';
 import { LabCaseView } from '@/features/bench/components/lab-case-view';
 import { QuotePanel } from '@/features/quotes';
+import { RefundPanel } from '@/features/refunds';
 import { CaseRecordPanel } from '@/features/custody';
 
 export const clientLoader = (queryClient: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
@@ -41,7 +42,15 @@ export default function LabCasePage() {
   }
   return (
     <>
-      <LabCaseView labCase={labCase.data} quoteSection={<QuotePanel labCase={labCase.data} />} />
+      <LabCaseView
+        labCase={labCase.data}
+        quoteSection={
+          <>
+            <QuotePanel labCase={labCase.data} />
+            <RefundPanel labCase={labCase.data} />
+          </>
+        }
+      />
       <CaseRecordPanel caseId={labCase.data.id} />
     </>
   );

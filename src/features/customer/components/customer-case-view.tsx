@@ -107,6 +107,7 @@ export function CustomerCaseView({ token, page }: { token: string; page: Custome
       ) : page.payment.state === 'paid' ? (
         <p className="text-sm text-moss-text">
           Paid {formatMoney(page.payment.amountMinor!, page.payment.currency!)} on {formatDateTime(page.payment.paidAt!)}. Thank you.
+          {page.payment.refundedMinor > 0 ? ` ${formatMoney(page.payment.refundedMinor, page.payment.currency!)} has been refunded to your card.` : null}
         </p>
       ) : null}
 

@@ -110,6 +110,7 @@ export function ShopLabWork({ referralId, customerEmail }: { referralId: string;
         {w?.payment.state === 'paid' ? (
           <p className="text-sm text-moss-text">
             Paid {formatMoney(w.payment.amountMinor!, w.payment.currency!)} on {formatDateTime(w.payment.paidAt!)}.
+            {w.payment.refundedMinor > 0 ? ` ${formatMoney(w.payment.refundedMinor, w.payment.currency!)} refunded by the lab.` : null}
           </p>
         ) : null}
         {w?.imaging ? <ImagingProgress imaging={w.imaging} detail="simple" /> : null}

@@ -1,0 +1,1 @@
+export { RefundPanel } from './components/refund-panel';
