@@ -142,7 +142,8 @@ export async function recordRefund(manager: EntityManager, refund: Stripe.Refund
 
 /** A refund made anywhere (our action or the provider's dashboard) is booked from the provider's own record of it. */
 export function registerRefundHandlers(): void {
-  onPaymentEvent('refund.created', async (event, { manager, ctx }) => {
+  // A card refund may start pending and succeed later (refund.updated); only a succeeded one is booked.
+  const book: Parameters<typeof onPaymentEvent>[1] = async (event, { manager, ctx }) => {
     const refund = await paymentsClient(ctx.config).refunds.retrieve((event.data.object as Stripe.Refund).id);
     const reason = refund.metadata?.reason;
     await recordRefund(manager, refund, {
@@ -152,5 +153,7 @@ export function registerRefundHandlers(): void {
       note: null,
       ip: null,
     });
-  });
+  };
+  onPaymentEvent('refund.created', book);
+  onPaymentEvent('refund.updated', book);
 }
