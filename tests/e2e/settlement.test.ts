@@ -44,7 +44,7 @@ describe('monthly settlement', () => {
     await seesHeading(admin, 'Network overview');
     await admin.goto(appUrl('/admin/settlement'));
     await seesHeading(admin, 'Settlement');
-    await admin.getByLabel('Month').selectOption(lastMonth);
+    await admin.getByLabel('Month', { exact: true }).selectOption(lastMonth);
     await admin.getByRole('button', { name: 'Run settlement' }).click();
     const result = admin.getByRole('status').filter({ hasText: `${formatPeriod(lastMonth)} settled` });
     await result.waitFor({ timeout: 30_000 });
