@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { benchListDto, labCaseDto } from '@shared/schemas/lab-work';
@@ -275,7 +276,10 @@ describe('imaging progress', () => {
     expect(key).toMatch(/^ppk_live_[a-z0-9]{12}_/);
     // Stored only as its SHA-256.
     const [stored] = await db.query(`SELECT secret_hash FROM api_keys WHERE id = $1`, [created.body.id]);
-    expect(stored.secret_hash).not.toContain(key.split('_').pop());
+    // The secret is everything after the prefix (it may itself hold "_"); the row keeps its SHA-256, not it.
+    const secret = key.slice('ppk_live_'.length + 12 + 1);
+    expect(stored.secret_hash).toBe(createHash('sha256').update(secret).digest('hex'));
+    expect(stored.secret_hash).not.toContain(secret);
 
     const res = await request(app)
       .post(`/api/lab/cases/${c.reference}/imaging`)
