@@ -346,6 +346,11 @@ export const refundReasonLabels: Record<RefundReason, string> = {
   other: 'Another reason (say which)',
 };
 
+/** The rule the API schema and the manager's form share: "another reason" needs the reason written. */
+function checkRefundNote(v: { reason: string; note?: string | undefined }, ctx: z.RefinementCtx): void {
+  if (v.reason === 'other' && !v.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why the money goes back' });
+}
+
 export const refundInput = z
   .object({
     /** In cents; without it, everything not yet refunded. */
@@ -353,16 +358,14 @@ export const refundInput = z
     reason: z.enum(refundReasons, { message: `Choose one of: ${refundReasons.join(', ')}` }),
     note: trimmed(500).optional(),
   })
-  .superRefine((v, ctx) => {
-    if (v.reason === 'other' && !v.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why the money goes back' });
-  });
+  .superRefine(checkRefundNote);
 export type RefundInput = z.infer<typeof refundInput>;
 
 /** The manager's refund form, amounts typed in dollars; at most `leftMinor`, what has not been refunded yet. */
 export function refundFormSchema(leftMinor: number, currency: string) {
   return z
     .object({
-      amount: z.string().trim().regex(/^\d{1,6}(\.\d{1,2})?$/, 'Enter an amount in dollars, such as 120 or 120.50'),
+      amount: decimalAmount,
       reason: z.union([z.enum(refundReasons), z.literal('')]),
       note: trimmed(500),
     })
@@ -371,7 +374,7 @@ export function refundFormSchema(leftMinor: number, currency: string) {
       if (cents !== null && cents < 1) ctx.addIssue({ code: 'custom', path: ['amount'], message: 'Refund at least one cent' });
       if (cents !== null && cents > leftMinor) ctx.addIssue({ code: 'custom', path: ['amount'], message: `At most ${formatMoney(leftMinor, currency)} is left to refund` });
       if (v.reason === '') ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Choose a reason' });
-      if (v.reason === 'other' && !v.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why the money goes back' });
+      checkRefundNote(v, ctx);
     });
 }
 export type RefundFormValues = z.input<ReturnType<typeof refundFormSchema>>;
