@@ -62,9 +62,19 @@ export async function refundCase(
   const paid = await manager.findOneBy(CustomerCheckout, { referralId: referral.id, status: 'paid' });
   if (!paid) throw AppError.conflict('This case has no card payment to refund.');
   const left = paid.amountMinor - (await refundedMinorOf(manager, referral.id));
-  if (left <= 0) throw AppError.conflict('Everything the customer paid has been refunded already.');
   const amountMinor = input.amountMinor ?? left;
-  if (amountMinor > left) {
+  if (left <= 0 || amountMinor > left) {
+    // A retry of a request that refunded what was left (its answer lost) finds nothing left: it is
+    // answered as the first was, not refused, once the provider shows the refund made with its key.
+    const earlier = await refundMadeWithKey(ctx, paid.paymentIntentId, referral.id, meta.idempotencyKey);
+    if (earlier) {
+      if (input.amountMinor !== undefined && input.amountMinor !== earlier.amount) {
+        throw AppError.conflict('That Idempotency-Key was already used for a refund of another amount', [{ path: 'Idempotency-Key', message: 'Used before with another amount' }]);
+      }
+      await ctx.db.transaction((tx) => recordRefund(tx, earlier, refundContext(worker, input, meta)));
+      return referral.id;
+    }
+    if (left <= 0) throw AppError.conflict('Everything the customer paid has been refunded already.');
     throw AppError.validation([{ path: 'amountMinor', message: `At most ${formatMoney(left, paid.currency)} is left to refund` }]);
   }
 
@@ -75,20 +85,37 @@ export async function refundCase(
         payment_intent: paid.paymentIntentId,
         amount: amountMinor,
         reason: providerReason[input.reason],
-        metadata: { referralId: referral.id, reason: input.reason },
+        metadata: { referralId: referral.id, reason: input.reason, requestKey: meta.idempotencyKey },
       },
       { idempotencyKey: `refund:${referral.id}:${meta.idempotencyKey}` },
     );
   } catch (error) {
+    if ((error as { type?: string }).type === 'StripeIdempotencyError') {
+      throw AppError.conflict('That Idempotency-Key was already used for a refund of another amount or reason', [{ path: 'Idempotency-Key', message: 'Used before with another request' }]);
+    }
     if ((error as { type?: string }).type === 'StripeInvalidRequestError') {
       throw AppError.conflict(`The payment service refused the refund: ${(error as Error).message}`);
     }
     throw new AppError('unavailable', 502, 'The payment service did not answer. Nothing was refunded; please try again in a minute.', undefined, { cause: error });
   }
-  await ctx.db.transaction((tx) =>
-    recordRefund(tx, refund, { actor: worker.actor, actorUserId: worker.userId, reason: input.reason, note: input.note ?? null, ip: meta.ip ?? null }),
-  );
+  await ctx.db.transaction((tx) => recordRefund(tx, refund, refundContext(worker, input, meta)));
   return referral.id;
+}
+
+function refundContext(worker: Awaited<ReturnType<typeof resolveWorker>>, input: { reason: RefundReason; note?: string | undefined }, meta: StepMeta): RefundContext {
+  return { actor: worker.actor, actorUserId: worker.userId, reason: input.reason, note: input.note ?? null, ip: meta.ip ?? null };
+}
+
+/** The case's refund the provider made for a request with this Idempotency-Key, if any. */
+async function refundMadeWithKey(ctx: ServiceContext, paymentIntentId: string, referralId: string, key: string): Promise<Stripe.Refund | null> {
+  try {
+    for await (const refund of paymentsClient(ctx.config).refunds.list({ payment_intent: paymentIntentId, limit: 100 })) {
+      if (refund.metadata?.requestKey === key && refund.metadata?.referralId === referralId) return refund;
+    }
+    return null;
+  } catch (error) {
+    throw new AppError('unavailable', 502, 'The payment service did not answer. Nothing was refunded; please try again in a minute.', undefined, { cause: error });
+  }
 }
 
 interface RefundContext {

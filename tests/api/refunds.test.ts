@@ -48,15 +48,30 @@ describe('POST /api/lab/cases/:id/refunds', () => {
     expect(again.status).toBe(201);
     const intent = await paymentIntentOf(c.id);
     expect((await payments.stripe.refunds.list({ payment_intent: intent })).data.map((r) => r.amount)).toEqual([10_000]);
+    // The same key with another amount is another request: refused, and nothing more is refunded.
+    const otherAmount = await refund(world.manager.token, c.id, { amountMinor: 5_000, reason: 'partial_recovery' }, key);
+    expect(otherAmount.status).toBe(409);
+    expect(otherAmount.body.error.fields).toEqual([{ path: 'Idempotency-Key', message: 'Used before with another request' }]);
     const booked = await ledgerRefunds(c.id);
     expect(booked).toHaveLength(1);
     const { labMinor, networkMinor, partnerMinor } = booked[0]!.details.reversal;
     expect(labMinor! + networkMinor! + partnerMinor!).toBe(10_000);
 
     // No amount: everything that is left.
-    const rest = await refund(world.manager.token, c.id, { reason: 'customer_request' });
+    const restKey = randomUUID();
+    const rest = await refund(world.manager.token, c.id, { reason: 'customer_request' }, restKey);
     expect(rest.status, JSON.stringify(rest.body)).toBe(201);
     expect(rest.body.payment.refundedMinor).toBe(STANDARD_TOTAL_MINOR);
+    expect((await ledgerRefunds(c.id)).map((r) => r.details.amountMinor)).toEqual([10_000, STANDARD_TOTAL_MINOR - 10_000]);
+
+    // Its retry (the answer was lost) finds nothing left, and is answered as the first was, not refused.
+    const restAgain = await refund(world.manager.token, c.id, { reason: 'customer_request' }, restKey);
+    expect(restAgain.status, JSON.stringify(restAgain.body)).toBe(201);
+    expect(restAgain.body.payment.refundedMinor).toBe(STANDARD_TOTAL_MINOR);
+    // The first key, asked for another amount once nothing is left: still another request.
+    const firstKeyLater = await refund(world.manager.token, c.id, { amountMinor: 5_000, reason: 'partial_recovery' }, key);
+    expect(firstKeyLater.status).toBe(409);
+    expect(firstKeyLater.body.error.fields).toEqual([{ path: 'Idempotency-Key', message: 'Used before with another amount' }]);
     expect((await ledgerRefunds(c.id)).map((r) => r.details.amountMinor)).toEqual([10_000, STANDARD_TOTAL_MINOR - 10_000]);
 
     const more = await refund(world.manager.token, c.id, { amountMinor: 1, reason: 'customer_request' });
