@@ -1,3 +1,3 @@
 export { Organization } from './entities';
 export { organizationRoutes } from './routes';
-export { toOrganizationDto } from './service';
+export { inviteInto, toOrganizationDto } from './service';

@@ -1,3 +1,4 @@
+import type { EntityManager } from 'typeorm';
 import { roleLabels, roleOrganizationKind } from '@shared/vocabulary';
 import type { InviteStaffInput, StaffMember } from '@shared/schemas/auth';
 import { recordAudit } from '../audit';
@@ -53,28 +54,43 @@ export async function inviteStaff(ctx: ServiceContext, actor: Actor, input: Invi
     throw AppError.validation([{ path: 'role', message: `A ${actor.organizationKind} organisation cannot have the role ${roleLabels[input.role]}` }]);
   }
   return ctx.db.transaction(async (manager) => {
-    const existing = await manager.findOneBy(User, { email: input.email });
-    if (existing) throw AppError.conflict('Someone with that e-mail already has an account', [{ path: 'email', message: 'Already has an account' }]);
-    const inviter = await manager.findOneByOrFail(User, { id: actor.userId });
     const org = await manager.findOneByOrFail(Organization, { id: actor.organizationId });
-    const user = await manager.save(manager.create(User, { ...input, organizationId: org.id, status: 'invited', passwordHash: null }));
-    const token = await issueOneTimeToken(manager, {
-      userId: user.id,
-      purpose: 'invitation',
-      ttlMs: ctx.config.invitationTtlHours * 3_600_000,
-      createdById: actor.userId,
-    });
-    await enqueueEmailToUser(manager, user.id, 'staff_invitation', {
-      name: user.name,
-      inviterName: inviter.name,
-      organizationName: org.name,
-      roleLabel: roleLabels[user.role],
-      url: `${ctx.config.appUrl}/accept-invitation?token=${encodeURIComponent(token)}`,
-      hours: ctx.config.invitationTtlHours,
-    });
-    await recordAudit(manager, { action: 'staff.invited', actorUserId: actor.userId, organizationId: org.id, targetType: 'user', targetId: user.id, details: { role: user.role } });
-    return toStaff(user);
+    return inviteInto(ctx, manager, org, actor.userId, input);
   });
+}
+
+/**
+ * Adds an invited person to an organisation inside the caller's transaction and mails them the link
+ * that lets them choose a password; audited. `fields` prefixes the e-mail's field path in errors.
+ */
+export async function inviteInto(
+  ctx: ServiceContext,
+  manager: EntityManager,
+  org: Organization,
+  inviterId: string,
+  input: InviteStaffInput,
+  options: { fields?: string } = {},
+): Promise<StaffMember> {
+  const existing = await manager.findOneBy(User, { email: input.email });
+  if (existing) throw AppError.conflict('Someone with that e-mail already has an account', [{ path: `${options.fields ?? ''}email`, message: 'Already has an account' }]);
+  const inviter = await manager.findOneByOrFail(User, { id: inviterId });
+  const user = await manager.save(manager.create(User, { ...input, organizationId: org.id, status: 'invited', passwordHash: null }));
+  const token = await issueOneTimeToken(manager, {
+    userId: user.id,
+    purpose: 'invitation',
+    ttlMs: ctx.config.invitationTtlHours * 3_600_000,
+    createdById: inviterId,
+  });
+  await enqueueEmailToUser(manager, user.id, 'staff_invitation', {
+    name: user.name,
+    inviterName: inviter.name,
+    organizationName: org.name,
+    roleLabel: roleLabels[user.role],
+    url: `${ctx.config.appUrl}/accept-invitation?token=${encodeURIComponent(token)}`,
+    hours: ctx.config.invitationTtlHours,
+  });
+  await recordAudit(manager, { action: 'staff.invited', actorUserId: inviterId, organizationId: org.id, targetType: 'user', targetId: user.id, details: { role: user.role } });
+  return toStaff(user);
 }
 
 export async function listOrganizations(ctx: ServiceContext, filter: { kind?: Organization['kind'] }) {

@@ -5,11 +5,12 @@ import { actorOf, type Guard } from '../auth';
 import type { ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
 import * as offers from './offers';
+import { onboardOrganization } from './onboarding';
 import * as profiles from './profiles';
 
 const idParam = z.object({ id: z.string().uuid('Not a valid id') });
 
-/** Lab profiles and offers (/api/lab/…) and the network's lab list (/api/network/labs…). */
+/** Lab profiles and offers (/api/lab/…), the network's lab list (/api/network/labs…) and onboarding. */
 export function routingRoutes(ctx: ServiceContext, guard: Guard): Router {
   const router = Router();
 
@@ -37,6 +38,10 @@ export function routingRoutes(ctx: ServiceContext, guard: Guard): Router {
   router.post('/lab/offers/:id/decline', guard.authorize('offers.respond'), async (req, res) => {
     const { id } = parseInput(idParam, req.params);
     res.json(await offers.declineOffer(ctx, actorOf(req), id, req.body));
+  });
+
+  router.post('/network/organizations', guard.authorize('network.manage'), async (req, res) => {
+    res.status(201).json(await onboardOrganization(ctx, actorOf(req), req.body));
   });
 
   router.get('/network/labs', guard.authorize('network.organizations.read'), async (req, res) => {

@@ -17,6 +17,28 @@ function isTimeZone(value: string): boolean {
   }
 }
 
+/** Time zones of the places the network serves (the US and Canada), for the forms to offer. */
+export const networkTimeZones = [
+  'America/New_York',
+  'America/Detroit',
+  'America/Indiana/Indianapolis',
+  'America/Chicago',
+  'America/Denver',
+  'America/Boise',
+  'America/Phoenix',
+  'America/Los_Angeles',
+  'America/Anchorage',
+  'Pacific/Honolulu',
+  'America/Puerto_Rico',
+  'America/St_Johns',
+  'America/Halifax',
+  'America/Toronto',
+  'America/Winnipeg',
+  'America/Regina',
+  'America/Edmonton',
+  'America/Vancouver',
+] as const;
+
 export const timeZoneSchema = z.string().trim().min(1, 'Choose a time zone').refine(isTimeZone, 'Use an IANA time zone, like America/Chicago');
 
 export const businessHoursSchema = z

@@ -23,6 +23,7 @@ const matrix: { method: 'get' | 'post'; path: string; body?: object; allowed: re
   { method: 'post', path: '/api/organization/staff/invitations', body: {}, allowed: admins, pass: 400 },
   { method: 'get', path: '/api/network/organizations', allowed: ['network_admin'], pass: 200 },
   { method: 'get', path: `/api/network/organizations/${anyOrgId}`, allowed: ['network_admin'], pass: 200 },
+  { method: 'post', path: '/api/network/organizations', body: {}, allowed: ['network_admin'], pass: 400 },
 ];
 
 describe('guard matrix', () => {

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { useFieldArray, useFormContext, useWatch } from 'react-hook-form';
-import type { LabProfileDto } from '@shared/schemas/labs';
+import { networkTimeZones, type LabProfileDto } from '@shared/schemas/labs';
 import { labSkillLabels, labSkills, mediaTypeLabels, mediaTypes, type LabSkill } from '@shared/vocabulary';
 import { Form } from '@/components/form/form';
 import { Alert } from '@/components/ui/alert';
@@ -13,7 +13,7 @@ import { Select } from '@/components/ui/select';
 import { toast } from '@/components/ui/toast';
 import { formatDate } from '@/lib/format';
 import { useUpdateLabProfile } from '../api/update-lab-profile';
-import { formValuesFrom, profileFormSchema, usTimeZones, type LabProfileFormValues } from '../utils/profile-form';
+import { formValuesFrom, profileFormSchema, type LabProfileFormValues } from '../utils/profile-form';
 
 const toNumber = (value: unknown) => (value === '' || value === null || value === undefined ? undefined : Number(value));
 
@@ -153,7 +153,8 @@ function AutoAcceptSection() {
 /** The whole lab profile; saving replaces it (PUT), as the API expects. */
 export function LabProfileForm({ profile }: { profile: LabProfileDto }) {
   const update = useUpdateLabProfile();
-  const zones = usTimeZones.includes(profile.timeZone as (typeof usTimeZones)[number]) ? usTimeZones : [profile.timeZone, ...usTimeZones];
+  // A lab elsewhere keeps its own zone among the choices.
+  const zones = networkTimeZones.includes(profile.timeZone as (typeof networkTimeZones)[number]) ? networkTimeZones : [profile.timeZone, ...networkTimeZones];
 
   return (
     <Form

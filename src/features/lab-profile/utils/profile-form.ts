@@ -90,17 +90,3 @@ export const emptyCertificate: CertificateFormValues = {
 
 export const certificateFormSchema = cleanAirCertificateInput as unknown as z.ZodType<z.output<typeof cleanAirCertificateInput>, CertificateFormValues>;
 
-/** Time zones of the network's US labs; a lab elsewhere keeps its own. */
-export const usTimeZones = [
-  'America/New_York',
-  'America/Detroit',
-  'America/Indiana/Indianapolis',
-  'America/Chicago',
-  'America/Denver',
-  'America/Boise',
-  'America/Phoenix',
-  'America/Los_Angeles',
-  'America/Anchorage',
-  'Pacific/Honolulu',
-  'America/Puerto_Rico',
-] as const;
