@@ -46,9 +46,10 @@ export async function onboardOrganization(ctx: ServiceContext, actor: Actor, raw
         slug: slugFor(input.name),
         email: input.email ?? null,
         phone: input.phone || null,
-        addressLine1: input.address.line1 ?? null,
-        city: input.address.city ?? place.city,
-        region: input.address.region ?? place.region,
+        addressLine1: input.address.line1 || null,
+        // A blank city or region is the postal code's own.
+        city: input.address.city || place.city,
+        region: input.address.region || place.region,
         postalCode: place.postalCode,
         country: place.country,
         lat: place.lat,

@@ -16,6 +16,7 @@ import { Table, type TableColumn } from '@/components/ui/table';
 import { toast } from '@/components/ui/toast';
 import { useAssignCommissionPlan, useCommissionPlans, useCreateCommissionPlan, usePartners, useUpdateCommissionPlan, type PartnerRow } from '../api/commission-plans';
 import { planFormSchema, planFormValuesFrom, planInputFrom } from '../utils/plan-form';
+import { OnboardOrganizationDialog } from './onboard-organization-dialog';
 
 /** "10 % · 14 % at 20+ paid": each tier's rate, and from how many paid referrals (90 days) it applies. */
 export function describeTiers(plan: Pick<CommissionPlanDto, 'tiers'>): string {
@@ -196,7 +197,7 @@ export function PartnersCard() {
     { header: 'Commission plan', cell: (s) => <PlanChoice partner={s} plans={plans.data?.plans ?? []} /> },
   ];
   return (
-    <Card title="Shops" description="Every repair shop and reseller that refers cases, with the commission plan it is on.">
+    <Card title="Shops" description="Every repair shop and reseller that refers cases, with the commission plan it is on." actions={<OnboardOrganizationDialog kind="partner" />}>
       {partners.isPending || plans.isPending ? (
         <Spinner label="Loading the shops" />
       ) : partners.isError || plans.isError ? (
