@@ -26,11 +26,12 @@ import {
   LabOffer,
   RoutingSnapshot,
   assignInTransaction,
-  caseForRoutingNow,
+  casesForRoutingNow,
   loadLabs,
   lockReferral,
   primeLabDirectory,
   rankLabs,
+  readDirectoryRow,
   recordTimeline,
   resolvePostalCode,
   routeAndOffer,
@@ -512,20 +513,39 @@ export async function previewRouting(ctx: ServiceContext, partnerOrganizationId:
 export async function listAttention(ctx: ServiceContext): Promise<{ data: AttentionItemDto[] }> {
   const manager = ctx.db.manager;
   const waiting = await manager.find(Referral, { where: { status: 'needs_attention' }, relations: { labOrganization: true }, order: { updatedAt: 'ASC' } });
+  if (waiting.length === 0) return { data: [] };
+  // The same statements however many cases wait: each part is read for all of them at once.
+  const ids = waiting.map((r) => r.id);
+  const [offers, sinceRows, cases, reading] = await readTogether(manager, [
+    () => manager.find(LabOffer, { where: { referralId: In(ids) }, order: { offeredAt: 'ASC' } }),
+    (): Promise<{ referral_id: string; at: Date }[]> =>
+      manager.query(
+        `SELECT DISTINCT ON (referral_id) referral_id, at FROM referral_timeline
+         WHERE referral_id = ANY($1::uuid[]) AND kind = 'needs_attention' ORDER BY referral_id, at DESC, position DESC`,
+        [ids],
+      ),
+    () => casesForRoutingNow(manager, waiting),
+    () => readDirectoryRow(manager),
+  ]);
+  const labIds = [...new Set(offers.map((o) => o.labOrganizationId))];
+  const labs = labIds.length ? await manager.find(Organization, { where: { id: In(labIds) } }) : [];
+  const names = new Map(labs.map((l) => [l.id, l.name]));
+  const since = new Map(sinceRows.map((r) => [r.referral_id, r.at]));
+  // Every case ranked against the one reading of the directory and the labs' open cases, on a manager
+  // of this request's own (a primed reading is taken by the next ranking on that manager).
+  const ranker = ctx.db.createEntityManager();
   const now = new Date();
   const data: AttentionItemDto[] = [];
   for (const referral of waiting) {
-    const offers = await manager.find(LabOffer, { where: { referralId: referral.id }, order: { offeredAt: 'ASC' } });
-    const labs = offers.length ? await manager.find(Organization, { where: { id: In([...new Set(offers.map((o) => o.labOrganizationId))]) } }) : [];
-    const names = new Map(labs.map((l) => [l.id, l.name]));
-    const ranking = await rankLabs(manager, await caseForRoutingNow(manager, referral), { asOf: now, previouslyOfferedLabIds: offers.map((o) => o.labOrganizationId) });
-    const since = await manager.findOne(TimelineEntry, { where: { referralId: referral.id, kind: 'needs_attention' }, order: { at: 'DESC', position: 'DESC' } });
+    const own = offers.filter((o) => o.referralId === referral.id);
+    primeLabDirectory(ranker, reading);
+    const ranking = await rankLabs(ranker, cases.get(referral.id)!, { asOf: now, previouslyOfferedLabIds: own.map((o) => o.labOrganizationId) });
     data.push({
       referral: toSummaryDto(referral),
       attentionReason: referral.attentionReason,
-      since: (since?.at ?? referral.updatedAt).toISOString(),
+      since: (since.get(referral.id) ?? referral.updatedAt).toISOString(),
       requiredSkills: referral.triage.requiredSkills,
-      previousOffers: offers.map((o) => ({ labId: o.labOrganizationId, labName: names.get(o.labOrganizationId) ?? '', status: o.status, declineReason: o.declineReason })),
+      previousOffers: own.map((o) => ({ labId: o.labOrganizationId, labName: names.get(o.labOrganizationId) ?? '', status: o.status, declineReason: o.declineReason })),
       ranking: { candidates: ranking.candidates, excluded: ranking.excluded },
     });
   }

@@ -91,9 +91,14 @@ function build(version: string, labs: LoadedLab[]): LabDirectory {
   return { version, byId, unroutable, prepared: prepareRoutingLabs(routable.map(toRoutingLab)) };
 }
 
+/** The directory's versions and each lab's open cases, read now: for several rankings from one reading (primeLabDirectory before each). */
+export async function readDirectoryRow(manager: EntityManager): Promise<DirectoryReadingRow> {
+  return (await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, []))[0]!;
+}
+
 /** The directory as of this statement, and each lab's open cases now. Reads the labs again only when they changed. */
 export async function readLabDirectory(manager: EntityManager): Promise<DirectoryReading> {
-  const row = takePrimed(manager) ?? (await namedQuery<DirectoryReadingRow>(manager, 'routing.open-cases', OPEN_CASES_SQL, []))[0]!;
+  const row = takePrimed(manager) ?? (await readDirectoryRow(manager));
   sawRecipientVersion(manager, row.directory_recipients_version);
   const openCases = new Map(Object.entries(row.directory_open_cases));
   const source = manager.connection;

@@ -45,14 +45,27 @@ export function caseForRouting(referral: Referral) {
  * then it is at that lab, which ships it on (an open lab transfer), so distances and transit days are
  * counted from there. (SQL rather than an import: receiving builds on routing.)
  */
-export async function caseForRoutingNow(manager: EntityManager, referral: Referral): Promise<ReturnType<typeof caseForRouting> & { heldBy: string | null }> {
-  const [held]: { name: string; lat: number; lon: number }[] = await manager.query(
-    `SELECT o.name, o.lat, o.lon FROM lab_transfers t JOIN organizations o ON o.id = t.from_lab_organization_id
-     WHERE t.referral_id = $1 AND t.status = 'open' AND o.lat IS NOT NULL AND o.lon IS NOT NULL LIMIT 1`,
-    [referral.id],
+export async function caseForRoutingNow(manager: EntityManager, referral: Referral): Promise<CaseForRoutingNow> {
+  return (await casesForRoutingNow(manager, [referral])).get(referral.id)!;
+}
+
+export type CaseForRoutingNow = ReturnType<typeof caseForRouting> & { heldBy: string | null };
+
+/** caseForRoutingNow for several cases, in one statement; by case id. */
+export async function casesForRoutingNow(manager: EntityManager, referrals: readonly Referral[]): Promise<Map<string, CaseForRoutingNow>> {
+  const held: { referral_id: string; name: string; lat: number; lon: number }[] = await manager.query(
+    `SELECT DISTINCT ON (t.referral_id) t.referral_id, o.name, o.lat, o.lon FROM lab_transfers t JOIN organizations o ON o.id = t.from_lab_organization_id
+     WHERE t.referral_id = ANY($1::uuid[]) AND t.status = 'open' AND o.lat IS NOT NULL AND o.lon IS NOT NULL ORDER BY t.referral_id`,
+    [referrals.map((r) => r.id)],
   );
-  const kase = caseForRouting(referral);
-  return held ? { ...kase, origin: { lat: Number(held.lat), lon: Number(held.lon) }, heldBy: held.name } : { ...kase, heldBy: null };
+  const byCase = new Map(held.map((h) => [h.referral_id, h]));
+  return new Map(
+    referrals.map((referral) => {
+      const kase = caseForRouting(referral);
+      const from = byCase.get(referral.id);
+      return [referral.id, from ? { ...kase, origin: { lat: Number(from.lat), lon: Number(from.lon) }, heldBy: from.name } : { ...kase, heldBy: null }];
+    }),
+  );
 }
 
 /** The first rule of the lab that covers every required skill and the distance, if any. */

@@ -3,7 +3,7 @@ export { routingRoutes } from './routes';
 export { registerRoutingJobs } from './jobs';
 export { loadLabs, LAB_OPEN_STATUSES, type LoadedLab } from './labs';
 export { rankLabs, noCandidateReason, RANKED_SHOWN, type CaseForRouting, type Ranking } from './ranking';
-export { primeLabDirectory, DIRECTORY_READING_COLUMNS, type DirectoryReadingRow } from './directory';
+export { primeLabDirectory, readDirectoryRow, DIRECTORY_READING_COLUMNS, type DirectoryReadingRow } from './directory';
 export { labManagers, networkAdmins, shopUsers, type Recipient } from './notify';
 export { lookupPostalCode, resolvePostalCode, type Place } from './places';
 export { recordTimeline, routingActor, type TimelineActor, type TimelineInput } from './timeline';
@@ -20,6 +20,7 @@ export {
   lockReferral,
   caseForRouting,
   caseForRoutingNow,
+  casesForRoutingNow,
   matchingAutoAcceptRule,
   type DispatchOutcome,
   type ExpiryResult,

@@ -5,10 +5,12 @@ import { geodesicDistanceKm } from '@shared/domain/geo';
 import { attentionListDto, labSummaryDto } from '@shared/schemas/labs';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
 import { Organization } from '../../server/organizations';
+import { listAttention } from '../../server/referrals/service';
 import { setupApi, signIn, unique } from '../support/api';
+import { statementsOf } from '../support/statements';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
 
-const { app, db } = await setupApi();
+const { app, db, config } = await setupApi();
 
 // Capability routing as the API shows it: which labs qualify, in which order, why the others do not,
 // automatic acceptance, and the network admin's queue for cases no lab takes. This file's shops and labs
@@ -263,6 +265,20 @@ describe('the network admin’s attention queue', () => {
     expect(audit[0]).toMatchObject({ action: 'referral.assigned', details: expect.objectContaining({ labId: wet.org.id }) });
     const after = await request(app).get('/api/network/attention').set(auth(adminToken));
     expect(after.body.data.map((i: { referral: { id: string } }) => i.referral.id)).not.toContain(created.body.id);
+  });
+
+  it('reads the queue in the same statements however many cases wait', async () => {
+    const shop = await makeShop();
+    const open = () => request(app).post('/api/referrals').set(auth(shop.token)).send(kase({ device: { mediaType: 'tape' }, symptoms: ['liquid_damage'] }));
+    const mine = [(await open()).body.id, (await open()).body.id, (await open()).body.id] as string[];
+    const { result, statements } = await statementsOf(() => listAttention({ config, db }));
+    expect(result.data.map((i) => i.referral.id)).toEqual(expect.arrayContaining(mine));
+    // One each for the offers, the timeline, the open lab transfers and the labs' open cases, whatever the count.
+    // (A reload of the labs themselves, after another file changed one, is not counted: it reads lab_profiles.)
+    const touching = (table: string) => statements.filter((s) => s.includes(table) && !s.includes('lab_profiles')).length;
+    expect(result.data.length).toBeGreaterThanOrEqual(3);
+    expect([touching('lab_offers'), touching('referral_timeline'), touching('lab_transfers'), touching('lab_directory_version')]).toEqual([1, 1, 1, 1]);
+    for (const id of mine) await db.query(`UPDATE referrals SET status = 'cancelled', cancelled_at = now() WHERE id = $1`, [id]);
   });
 
   it('refuses to assign a lab without a profile, or a case that a lab has already accepted', async () => {
