@@ -1,10 +1,9 @@
-import AxeBuilder from '@axe-core/playwright';
 import pg from 'pg';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
 import { unique, waitForMail } from '../support/api';
-import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { appUrl, launchBrowser, signIn, seriousViolations } from '../support/browser';
 import { insertQuillmarkCase } from '../support/e2e-cases';
 
 // A case through the lab's bench and the customer's page: the technician records the evaluation, the lab
@@ -63,14 +62,6 @@ async function openFromBench(page: Page, reference: string): Promise<void> {
   await page.goto(appUrl('/lab/bench'));
   await page.getByRole('link', { name: reference }).click();
   await page.getByRole('heading', { level: 1, name: reference }).waitFor();
-}
-
-/** Only these two axe impact levels fail the check. */
-async function seriousViolations(p: Page): Promise<string[]> {
-  const results = await new AxeBuilder({ page: p }).analyze();
-  return results.violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.id} (${v.impact}): ${v.nodes.map((node) => node.target.join(' ')).join(', ')}`);
 }
 
 const manifest = [

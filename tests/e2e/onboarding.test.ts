@@ -1,9 +1,7 @@
-import AxeBuilder from '@axe-core/playwright';
-import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
 import { unique } from '../support/api';
-import { appUrl, browserPages, signIn } from '../support/browser';
+import { appUrl, browserPages, signIn, seriousViolations } from '../support/browser';
 
 // The network admin adds a shop and a lab through their forms: the fields say what is missing, the
 // newcomer is listed at once, and the lab shows as not yet set up. Both sit in Anchorage, far from the
@@ -11,11 +9,6 @@ import { appUrl, browserPages, signIn } from '../support/browser';
 
 const NETWORK_ADMIN = 'ines.albright@platterpost.example';
 const freshPage = browserPages();
-
-async function seriousViolations(p: Page): Promise<string[]> {
-  const results = await new AxeBuilder({ page: p }).analyze();
-  return results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id} (${v.impact}): ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
-}
 
 describe('onboarding', () => {
   it('adds a shop and a lab, each with the person who runs it invited', async () => {

@@ -1,4 +1,3 @@
-import AxeBuilder from '@axe-core/playwright';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { demoAccounts, DEMO_PASSWORD } from '../../server/db/seed/demo-accounts';
@@ -6,7 +5,7 @@ import { demoApiKeyValues } from '../../server/db/seed/demo-api-keys';
 import { demoExtraStaff, demoOrganizations } from '../../server/db/seed/demo-data';
 import { caseStatusLabels } from '@shared/vocabulary';
 import { unique } from '../support/api';
-import { appUrl, browserPages, signIn } from '../support/browser';
+import { appUrl, browserPages, signIn, seriousViolations } from '../support/browser';
 
 // A shop clerk opens a referral at the counter, the lab it is offered to accepts it, and the shop
 // sees the answer. Everything is asserted as a person sees it: headings, labels, list items, text.
@@ -147,10 +146,6 @@ describe('referrals in the browser', () => {
     await page.getByRole('list', { name: 'Ranked labs' }).or(page.getByText('No lab can take this case right now.')).first().waitFor();
     await page.getByRole('region', { name: 'Map: Labs for this device' }).getByRole('button').first().waitFor();
 
-    const results = await new AxeBuilder({ page }).analyze();
-    const serious = results.violations
-      .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-      .map((v) => `${v.id} (${v.impact}): ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
-    expect(serious).toEqual([]);
+    expect(await seriousViolations(page)).toEqual([]);
   });
 });

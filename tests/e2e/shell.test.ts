@@ -1,10 +1,9 @@
-import AxeBuilder from '@axe-core/playwright';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '@shared/vocabulary';
 import { demoAccounts, DEMO_PASSWORD, type DemoAccount } from '../../server/db/seed/demo-accounts';
 import { linkToken, unique, waitForMail } from '../support/api';
-import { appUrl, launchBrowser, signIn } from '../support/browser';
+import { appUrl, launchBrowser, signIn, seriousViolations } from '../support/browser';
 
 // Each role's first page after sign-in and the heading it shows (product brief: "Homes per role").
 const homes: Record<Role, { path: string; heading: string }> = {
@@ -48,14 +47,6 @@ const pathname = (p: Page) => new URL(p.url()).pathname;
 
 async function seesHeading(p: Page, name: string): Promise<void> {
   await p.getByRole('heading', { level: 1, name, exact: true }).waitFor({ state: 'visible' });
-}
-
-/** Only these two axe impact levels fail the check; minor and moderate findings are reported in the message. */
-async function seriousViolations(p: Page): Promise<string[]> {
-  const results = await new AxeBuilder({ page: p }).analyze();
-  return results.violations
-    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).join(', ')}`);
 }
 
 /** The lab manager invites a new technician through the Staff page; returns the address invited. */

@@ -1,3 +1,4 @@
+import AxeBuilder from '@axe-core/playwright';
 import { afterAll, afterEach, beforeAll, inject } from 'vitest';
 import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
 
@@ -43,4 +44,12 @@ export function browserPages(options: BrowserContextOptions = {}): () => Promise
     contexts.push(context);
     return context.newPage();
   };
+}
+
+/** An axe check of the page as it is now: only the serious and critical findings, each with where it is. */
+export async function seriousViolations(page: Page): Promise<string[]> {
+  const results = await new AxeBuilder({ page }).analyze();
+  return results.violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => `${v.id} (${v.impact}): ${v.nodes.map((node) => node.target.join(' ')).join(', ')}`);
 }
