@@ -3,19 +3,18 @@ import os from 'node:os';
 import path from 'node:path';
 import bwipjs from 'bwip-js/node';
 import request from 'supertest';
-import zipcodes from 'zipcodes';
-import { afterAll, afterEach, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { labOfferDto, labOfferListDto } from '@shared/schemas/labs';
 import { roles, type Role } from '@shared/vocabulary';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
 import { relayJobOutbox, startQueue } from '../../server/jobs';
-import { Organization } from '../../server/organizations';
 import { expireOffer } from '../../server/routing';
 import { setupApi, signIn, unique } from '../support/api';
-import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
+import { testNetwork } from '../support/network';
 
 const uploadDir = mkdtempSync(path.join(os.tmpdir(), 'platterpost-offers-uploads-'));
-const { app, db, config } = await setupApi({ UPLOAD_DIR: uploadDir });
+const api = await setupApi({ UPLOAD_DIR: uploadDir });
+const { app, db, config } = api;
 const ctx = { db, config };
 afterAll(() => rmSync(uploadDir, { recursive: true, force: true }));
 
@@ -23,56 +22,22 @@ afterAll(() => rmSync(uploadDir, { recursive: true, force: true }));
 // sit in Bangor, ME (ZIP 04401), far from the other files' and the demo network's; its labs answer in
 // one or two business days so that they rank first here. Each test stops its labs taking new cases.
 const ZIP = '04401';
-const place = zipcodes.lookup(ZIP)!;
+const network = testNetwork(api, { zip: ZIP, timeZone: 'America/New_York', holidayRegion: 'ME' });
 const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
-const labsOfThisTest: string[] = [];
 
-afterEach(async () => {
-  await db.query(`UPDATE lab_profiles SET accepting_new_cases = false WHERE organization_id = ANY($1)`, [labsOfThisTest]);
-  labsOfThisTest.length = 0;
-});
+const makeShop = () => network.makeShop({ line1: '5 Harbor Street', role: 'partner_admin' });
 
-async function makeShop() {
-  const org = await db.getRepository(Organization).save({
-    kind: 'partner',
-    name: unique('Test Shop '),
-    slug: unique('shop-'),
-    addressLine1: '5 Harbor Street',
-    city: place.city,
-    region: place.state,
-    postalCode: ZIP,
-    country: 'US',
-    lat: place.latitude,
-    lon: place.longitude,
-    timeZone: 'America/New_York',
-  });
-  const user = await createUser(db, { role: 'partner_admin', organizationId: org.id });
-  const { accessToken } = await signIn(app, user.email, TEST_PASSWORD);
-  return { org, user, token: accessToken };
-}
-
-async function makeLab(turnaroundDays: number) {
-  const org = await createOrganization(db, 'lab', unique('Test Lab '));
-  const manager = await createUser(db, { role: 'lab_manager', organizationId: org.id });
-  const { accessToken: token } = await signIn(app, manager.email, TEST_PASSWORD);
-  const res = await request(app)
-    .put('/api/lab/profile')
-    .set(auth(token))
-    .send({
-      address: { postalCode: ZIP, country: 'US' },
-      timeZone: 'America/New_York',
+/** A lab taking only logical work on cards and sticks, open 08:00–16:00. */
+const makeLab = (turnaroundDays: number) =>
+  network.makeLab({
+    mediaTypes: ['usb_flash', 'memory_card'],
+    skills: [{ skill: 'logical', turnaroundDays }],
+    profile: {
       businessHours: { opensAt: '08:00', closesAt: '16:00', workdays: [1, 2, 3, 4, 5], holidayCountry: 'US', holidayRegion: 'ME' },
-      mediaTypes: ['usb_flash', 'memory_card'],
-      skills: [{ skill: 'logical', turnaroundDays }],
       weeklyThroughput: 5,
       queueCapacity: 10,
-      healthDataAgreement: { signed: false },
-      acceptingNewCases: true,
-    });
-  expect(res.status).toBe(200);
-  labsOfThisTest.push(org.id);
-  return { org, manager, token };
-}
+    },
+  });
 
 const deletedPhotos = {
   customer: { name: 'Odessa Marchetti', email: 'odessa.marchetti@customer.test', phone: '+1 207 555 0144' },

@@ -1,51 +1,26 @@
 import request from 'supertest';
 import zipcodes from 'zipcodes';
-import { afterEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { offerDeadline } from '@shared/domain/business-hours';
 import { parseReference } from '@shared/domain/reference';
 import { referralDto, referralListDto, routingPreviewDto } from '@shared/schemas/referrals';
 import { roles, type Role } from '@shared/vocabulary';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
-import { Organization } from '../../server/organizations';
 import { createReferral } from '../../server/referrals';
 import { setupApi, signIn, unique } from '../support/api';
-import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
+import { testNetwork } from '../support/network';
 
-const { app, db, config } = await setupApi();
+const ctx = await setupApi();
+const { app, db, config } = ctx;
 
 // Intake through POST /api/referrals: the case, triage, routing, the offer and the timeline, all in one
 // transaction. This file's shops and labs sit in Billings, MT (ZIP 59101), far from the other files'
 // and the demo network's, and its labs answer in one business day, so they rank first here; each test
 // stops its labs taking new cases when it ends.
 const ZIP = '59101';
-const place = zipcodes.lookup(ZIP)!;
+const { place, makeShop: shopAt, makeLab: labAt } = testNetwork(ctx, { zip: ZIP, timeZone: 'America/Denver', holidayRegion: 'MT' });
 const calendar = { timeZone: 'America/Denver', country: 'US', region: 'MT', opensAt: '09:00', closesAt: '17:00', workdays: [1, 2, 3, 4, 5] };
 const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
-const labsOfThisTest: string[] = [];
-
-afterEach(async () => {
-  await db.query(`UPDATE lab_profiles SET accepting_new_cases = false WHERE organization_id = ANY($1)`, [labsOfThisTest]);
-  labsOfThisTest.length = 0;
-});
-
-async function makeShop() {
-  const org = await db.getRepository(Organization).save({
-    kind: 'partner',
-    name: unique('Test Shop '),
-    slug: unique('shop-'),
-    addressLine1: '1 Counter Street',
-    city: place.city,
-    region: place.state,
-    postalCode: ZIP,
-    country: 'US',
-    lat: place.latitude,
-    lon: place.longitude,
-    timeZone: 'America/Denver',
-  });
-  const user = await createUser(db, { role: 'partner_staff', organizationId: org.id });
-  const { accessToken } = await signIn(app, user.email, TEST_PASSWORD);
-  return { org, user, token: accessToken };
-}
 
 const isoDate = (d: Date) => d.toISOString().slice(0, 10);
 const daysAgo = (n: number) => isoDate(new Date(Date.now() - n * 86_400_000));
@@ -62,34 +37,9 @@ const classFive = (testedOn: string) => ({
   ],
 });
 
-async function makeLab(options: { skills: { skill: string; turnaroundDays: number }[]; certificate?: object; profile?: object }) {
-  const org = await createOrganization(db, 'lab', unique('Test Lab '));
-  const manager = await createUser(db, { role: 'lab_manager', organizationId: org.id });
-  const { accessToken: token } = await signIn(app, manager.email, TEST_PASSWORD);
-  const res = await request(app)
-    .put('/api/lab/profile')
-    .set(auth(token))
-    .send({
-      address: { line1: '2 Bench Road', postalCode: ZIP, country: 'US' },
-      timeZone: calendar.timeZone,
-      businessHours: { opensAt: '09:00', closesAt: '17:00', workdays: [1, 2, 3, 4, 5], holidayCountry: 'US', holidayRegion: 'MT' },
-      mediaTypes: ['hdd_3_5', 'hdd_2_5', 'ssd_sata', 'usb_flash'],
-      skills: options.skills,
-      weeklyThroughput: 10,
-      queueCapacity: 20,
-      healthDataAgreement: { signed: false },
-      acceptingNewCases: true,
-      autoAcceptRules: [],
-      ...options.profile,
-    });
-  expect(res.status).toBe(200);
-  if (options.certificate) {
-    const cert = await request(app).post('/api/lab/profile/certificates').set(auth(token)).send(options.certificate);
-    expect(cert.status).toBe(201);
-  }
-  labsOfThisTest.push(org.id);
-  return { org, manager, token };
-}
+const makeShop = () => shopAt({ line1: '1 Counter Street' });
+const makeLab = (options: { skills: { skill: string; turnaroundDays: number }[]; certificate?: object; profile?: Record<string, unknown> }) =>
+  labAt({ ...options, line1: '2 Bench Road', mediaTypes: ['hdd_3_5', 'hdd_2_5', 'ssd_sata', 'usb_flash'] });
 
 const clickingDrive = (overrides: Record<string, unknown> = {}) => ({
   customer: { name: 'Wendell Okafor', email: 'wendell.okafor@customer.test', phone: '+1 406 555 0101' },

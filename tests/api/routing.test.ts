@@ -1,50 +1,26 @@
 import request from 'supertest';
 import zipcodes from 'zipcodes';
-import { afterEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { geodesicDistanceKm } from '@shared/domain/geo';
 import { attentionListDto, labSummaryDto } from '@shared/schemas/labs';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
-import { Organization } from '../../server/organizations';
 import { listAttention } from '../../server/referrals/service';
-import { setupApi, signIn, unique } from '../support/api';
+import { setupApi, signIn } from '../support/api';
 import { statementsOf } from '../support/statements';
-import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
+import { createOrganization } from '../support/factories';
+import { testNetwork } from '../support/network';
 
-const { app, db, config } = await setupApi();
+const ctx = await setupApi();
+const { app, db, config } = ctx;
 
 // Capability routing as the API shows it: which labs qualify, in which order, why the others do not,
 // automatic acceptance, and the network admin's queue for cases no lab takes. This file's shops and labs
 // sit in Fargo, ND (ZIP 58102), far from the other files' and the demo network's; its labs answer in one
 // to three business days so that they rank first here. Each test stops its labs taking new cases.
 const ZIP = '58102';
-const place = zipcodes.lookup(ZIP)!;
+const { place, makeShop, makeLab } = testNetwork(ctx, { zip: ZIP, timeZone: 'America/Chicago', holidayRegion: 'ND' });
 const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
-const labsOfThisTest: string[] = [];
 const adminToken = (await signIn(app, demoAccounts.find((a) => a.role === 'network_admin')!.email)).accessToken;
-
-afterEach(async () => {
-  await db.query(`UPDATE lab_profiles SET accepting_new_cases = false WHERE organization_id = ANY($1)`, [labsOfThisTest]);
-  labsOfThisTest.length = 0;
-});
-
-async function makeShop(zip = ZIP) {
-  const at = zipcodes.lookup(zip)!;
-  const org = await db.getRepository(Organization).save({
-    kind: 'partner',
-    name: unique('Test Shop '),
-    slug: unique('shop-'),
-    city: at.city,
-    region: at.state,
-    postalCode: zip,
-    country: 'US',
-    lat: at.latitude,
-    lon: at.longitude,
-    timeZone: 'America/Chicago',
-  });
-  const user = await createUser(db, { role: 'partner_staff', organizationId: org.id });
-  const { accessToken } = await signIn(app, user.email, TEST_PASSWORD);
-  return { org, user, token: accessToken };
-}
 
 const isoDate = (d: Date) => d.toISOString().slice(0, 10);
 const daysAgo = (n: number) => isoDate(new Date(Date.now() - n * 86_400_000));
@@ -71,44 +47,6 @@ const classSeven = (testedOn: string) => ({
     { location: 'L1', sizeUm: 5, perM3: 900, volumeLitres: 28.3 },
   ],
 });
-
-interface LabOptions {
-  name?: string;
-  zip?: string;
-  skills?: { skill: string; turnaroundDays: number }[];
-  mediaTypes?: string[];
-  certificate?: object;
-  profile?: Record<string, unknown>;
-}
-
-async function makeLab(options: LabOptions = {}) {
-  const org = await createOrganization(db, 'lab', unique(options.name ?? 'Test Lab '));
-  const manager = await createUser(db, { role: 'lab_manager', organizationId: org.id });
-  const { accessToken: token } = await signIn(app, manager.email, TEST_PASSWORD);
-  const res = await request(app)
-    .put('/api/lab/profile')
-    .set(auth(token))
-    .send({
-      address: { postalCode: options.zip ?? ZIP, country: 'US' },
-      timeZone: 'America/Chicago',
-      businessHours: { opensAt: '09:00', closesAt: '17:00', workdays: [1, 2, 3, 4, 5], holidayCountry: 'US', holidayRegion: 'ND' },
-      mediaTypes: options.mediaTypes ?? ['hdd_3_5', 'hdd_2_5', 'usb_flash', 'tape'],
-      skills: options.skills ?? [{ skill: 'hdd_head_swap', turnaroundDays: 1 }],
-      weeklyThroughput: 10,
-      queueCapacity: 20,
-      healthDataAgreement: { signed: false },
-      acceptingNewCases: true,
-      autoAcceptRules: [],
-      ...options.profile,
-    });
-  expect(res.status, JSON.stringify(res.body)).toBe(200);
-  if (options.certificate) {
-    const cert = await request(app).post('/api/lab/profile/certificates').set(auth(token)).send(options.certificate);
-    expect(cert.status).toBe(201);
-  }
-  labsOfThisTest.push(org.id);
-  return { org, manager, token };
-}
 
 const kase = (overrides: Record<string, unknown> = {}) => ({
   customer: { name: 'Ansel Varga-Moreau', email: 'ansel@customer.test' },
@@ -214,7 +152,7 @@ describe('auto-accept rules', () => {
 
   it('leaves the offer for a person when a required skill is outside the rule or the shop is too far', async () => {
     const near = await makeShop();
-    const far = await makeShop('58501'); // Bismarck, ND: about 300 km west
+    const far = await makeShop({ zip: '58501' }); // Bismarck, ND: about 300 km west
     await makeLab({
       skills: [{ skill: 'logical', turnaroundDays: 1 }, { skill: 'encrypted_volumes', turnaroundDays: 1 }],
       profile: { autoAcceptRules: [{ skills: ['logical'], maxDistanceKm: 50 }] },
