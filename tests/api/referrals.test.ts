@@ -8,7 +8,7 @@ import { roles, type Role } from '@shared/vocabulary';
 import { demoAccounts } from '../../server/db/seed/demo-accounts';
 import { createReferral } from '../../server/referrals';
 import { setupApi, signIn, unique } from '../support/api';
-import { testNetwork } from '../support/network';
+import { classFive, daysAgo, testNetwork } from '../support/network';
 
 const ctx = await setupApi();
 const { app, db, config } = ctx;
@@ -22,20 +22,6 @@ const { place, makeShop: shopAt, makeLab: labAt } = testNetwork(ctx, { zip: ZIP,
 const calendar = { timeZone: 'America/Denver', country: 'US', region: 'MT', opensAt: '09:00', closesAt: '17:00', workdays: [1, 2, 3, 4, 5] };
 const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
 
-const isoDate = (d: Date) => d.toISOString().slice(0, 10);
-const daysAgo = (n: number) => isoDate(new Date(Date.now() - n * 86_400_000));
-
-/** Particle counts that demonstrate ISO 14644-1 class 5 on a 1.5 m² bench (one location, Table A.1). */
-const classFive = (testedOn: string) => ({
-  testedOn,
-  areaName: 'Bench 1',
-  areaM2: 1.5,
-  samples: [
-    { location: 'L1', sizeUm: 0.3, perM3: 3000, volumeLitres: 28.3 },
-    { location: 'L1', sizeUm: 0.5, perM3: 900, volumeLitres: 28.3 },
-    { location: 'L1', sizeUm: 1, perM3: 200, volumeLitres: 28.3 },
-  ],
-});
 
 const makeShop = () => shopAt({ line1: '1 Counter Street' });
 const makeLab = (options: { skills: { skill: string; turnaroundDays: number }[]; certificate?: object; profile?: Record<string, unknown> }) =>

@@ -8,7 +8,7 @@ import { listAttention } from '../../server/referrals/service';
 import { setupApi, signIn } from '../support/api';
 import { statementsOf } from '../support/statements';
 import { createOrganization } from '../support/factories';
-import { testNetwork } from '../support/network';
+import { classFive, daysAgo, testNetwork } from '../support/network';
 
 const ctx = await setupApi();
 const { app, db, config } = ctx;
@@ -22,20 +22,6 @@ const { place, makeShop, makeLab } = testNetwork(ctx, { zip: ZIP, timeZone: 'Ame
 const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
 const adminToken = (await signIn(app, demoAccounts.find((a) => a.role === 'network_admin')!.email)).accessToken;
 
-const isoDate = (d: Date) => d.toISOString().slice(0, 10);
-const daysAgo = (n: number) => isoDate(new Date(Date.now() - n * 86_400_000));
-
-/** ISO 14644-1 class 5 on a 1.5 m² bench (one sampling location, Table A.1). */
-const classFive = (testedOn: string) => ({
-  testedOn,
-  areaName: 'Bench 1',
-  areaM2: 1.5,
-  samples: [
-    { location: 'L1', sizeUm: 0.3, perM3: 3000, volumeLitres: 28.3 },
-    { location: 'L1', sizeUm: 0.5, perM3: 900, volumeLitres: 28.3 },
-    { location: 'L1', sizeUm: 1, perM3: 200, volumeLitres: 28.3 },
-  ],
-});
 /** ISO class 7: 0.5 µm 120 000/m³ is over the class 6 limit (35 200) and within class 7 (352 000). */
 const classSeven = (testedOn: string) => ({
   testedOn,

@@ -34,6 +34,25 @@ export interface LabOptions {
   profile?: Record<string, unknown>;
 }
 
+const isoDate = (d: Date) => d.toISOString().slice(0, 10);
+/** The date n days before today, as a certificate's test date. */
+export const daysAgo = (n: number) => isoDate(new Date(Date.now() - n * 86_400_000));
+
+/**
+ * Particle counts that demonstrate ISO 14644-1:2015 class 5 on a 1.5 m² bench: one sampling location
+ * (Table A.1), every count under the class 5 limits of Table 1 (0.3 µm 10 200, 0.5 µm 3 520, 1 µm 832).
+ */
+export const classFive = (testedOn: string) => ({
+  testedOn,
+  areaName: 'Bench 1',
+  areaM2: 1.5,
+  samples: [
+    { location: 'L1', sizeUm: 0.3, perM3: 3000, volumeLitres: 28.3 },
+    { location: 'L1', sizeUm: 0.5, perM3: 900, volumeLitres: 28.3 },
+    { location: 'L1', sizeUm: 1, perM3: 200, volumeLitres: 28.3 },
+  ],
+});
+
 export const bearer = (token: string) => ({ Authorization: `Bearer ${token}` });
 
 export function testNetwork({ app, db }: Pick<TestContext, 'app' | 'db'>, at: NetworkPlace) {
