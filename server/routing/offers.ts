@@ -9,7 +9,7 @@ import { Referral } from '../referrals/entities';
 import { acceptInTransaction, declineInTransaction, expireInTransaction, lockReferral } from './dispatch';
 import { LabOffer } from './entities';
 import { formatLocal } from './notify';
-import type { TimelineActor } from './timeline';
+import { personActor } from './timeline';
 
 // A lab's side of offers: the lab manager sees the offers made to the own lab (never a case that was not
 // offered to it), and accepts or declines them while they are pending.
@@ -99,11 +99,6 @@ export async function getLabOffer(ctx: ServiceContext, actor: Actor, offerId: st
   return offer;
 }
 
-async function actorFor(manager: EntityManager, actor: Actor): Promise<TimelineActor> {
-  const rows: { name: string }[] = await manager.query(`SELECT name FROM users WHERE id = $1`, [actor.userId]);
-  return { type: 'user', id: actor.userId, name: rows[0]?.name ?? 'Lab manager' };
-}
-
 type Response = { kind: 'accept' } | { kind: 'decline'; input: ReturnType<typeof declineOfferInput.parse> };
 
 /** Locks the case, then the offer, and answers it; an offer past its deadline expires instead (409). */
@@ -123,7 +118,7 @@ async function respond(ctx: ServiceContext, actor: Actor, offerId: string, respo
       await expireInTransaction(ctx, manager, referral, offer, now);
       return { error: AppError.conflict(`This offer expired at ${formatLocal(offer.deadline, lab.timeZone)} and has gone to the next lab.`) };
     }
-    const who = await actorFor(manager, actor);
+    const who = await personActor(manager, actor.userId, 'Lab manager');
     if (response.kind === 'accept') await acceptInTransaction(ctx, manager, referral, offer, lab, { actor: who, now });
     else await declineInTransaction(ctx, manager, referral, offer, lab.name, { actor: who, input: response.input, now });
     return { error: null };

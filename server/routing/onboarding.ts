@@ -1,15 +1,19 @@
 import { randomBytes } from 'node:crypto';
-import { firstRoleOf, onboardOrganizationInput, type OnboardedOrganizationDto } from '@shared/schemas/organizations';
+import { firstRoleOf, onboardOrganizationInput, organizationActiveInput, type OnboardedOrganizationDto, type OrganizationDto } from '@shared/schemas/organizations';
 import { recordAudit } from '../audit';
 import { AppError } from '../lib/errors';
 import type { Actor, ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
 import { inviteInto, Organization, toOrganizationDto } from '../organizations';
+import { lockReferral, routeAndOffer, withdrawPendingOffer } from './dispatch';
+import { LabOffer } from './entities';
 import { resolvePostalCode } from './places';
+import { personActor } from './timeline';
 
 // The network admin adds a shop or a lab: the organisation, placed by its postal code (routing measures
-// from it), and its first person, invited by e-mail. It lives with routing because a place is a
-// routing matter; organisations know nothing of postal codes.
+// from it), and its first person, invited by e-mail; and switches one off or on again. It lives with
+// routing because a place is a routing matter (organisations know nothing of postal codes) and
+// because switching a lab off hands its open offers to the next lab.
 
 function slugFor(name: string): string {
   const base = name
@@ -68,5 +72,44 @@ export async function onboardOrganization(ctx: ServiceContext, actor: Actor, raw
     });
     const admin = await inviteInto(ctx, manager, org, actor.userId, { name: input.admin.name, email: input.admin.email, role: firstRoleOf[input.kind] }, { fields: 'admin.' });
     return { organization: toOrganizationDto(org), admin };
+  });
+}
+
+/**
+ * Switches a shop or a lab off (or on again). Off, its people cannot sign in and its API keys stop
+ * working (both check the organisation on every request); a lab leaves routing, and each offer it has
+ * not answered yet is withdrawn and goes to the next lab at once, in the same transaction. Cases it
+ * already holds stay with it. Audited with the reason.
+ */
+export async function setOrganizationActive(ctx: ServiceContext, actor: Actor, id: string, rawInput: unknown): Promise<OrganizationDto> {
+  const input = parseInput(organizationActiveInput, rawInput);
+  return ctx.db.transaction(async (manager) => {
+    const org = await manager.findOne(Organization, { where: { id }, lock: { mode: 'pessimistic_write' } });
+    if (!org || org.kind === 'network') throw AppError.notFound('That shop or lab');
+    if (org.active === input.active) return toOrganizationDto(org);
+    await manager.update(Organization, org.id, { active: input.active });
+    org.active = input.active;
+    let reoffered = 0;
+    if (!input.active && org.kind === 'lab') {
+      const now = new Date();
+      const admin = await personActor(manager, actor.userId, 'Network admin');
+      const pending = await manager.find(LabOffer, { where: { labOrganizationId: org.id, status: 'pending' } });
+      for (const offer of pending) {
+        const referral = await lockReferral(manager, offer.referralId);
+        if (!referral) continue;
+        if (!(await withdrawPendingOffer(manager, referral, { reason: 'the network switched the lab off.', actor: admin, now }))) continue;
+        await routeAndOffer(ctx, manager, referral, { trigger: 'reoffer', now });
+        reoffered++;
+      }
+    }
+    await recordAudit(manager, {
+      action: input.active ? 'organization.switched_on' : 'organization.switched_off',
+      actorUserId: actor.userId,
+      organizationId: org.id,
+      targetType: 'organization',
+      targetId: org.id,
+      details: { kind: org.kind, name: org.name, reason: input.reason ?? null, ...(org.kind === 'lab' && !input.active ? { offersPassedOn: reoffered } : {}) },
+    });
+    return toOrganizationDto(org);
   });
 }

@@ -5,7 +5,7 @@ import { actorOf, type Guard } from '../auth';
 import type { ServiceContext } from '../lib/context';
 import { parseInput } from '../lib/validate';
 import * as offers from './offers';
-import { onboardOrganization } from './onboarding';
+import { onboardOrganization, setOrganizationActive } from './onboarding';
 import * as profiles from './profiles';
 
 const idParam = z.object({ id: z.string().uuid('Not a valid id') });
@@ -42,6 +42,10 @@ export function routingRoutes(ctx: ServiceContext, guard: Guard): Router {
 
   router.post('/network/organizations', guard.authorize('network.manage'), async (req, res) => {
     res.status(201).json(await onboardOrganization(ctx, actorOf(req), req.body));
+  });
+  router.put('/network/organizations/:id/active', guard.authorize('network.manage'), async (req, res) => {
+    const { id } = parseInput(idParam, req.params);
+    res.json(await setOrganizationActive(ctx, actorOf(req), id, req.body));
   });
 
   router.get('/network/labs', guard.authorize('network.organizations.read'), async (req, res) => {

@@ -13,6 +13,12 @@ export const routingActor: TimelineActor = { type: 'system', id: null, name: 'Pl
 export const autoAcceptActor: TimelineActor = { type: 'system', id: null, name: 'system (auto-accept rule)' };
 export const deadlineActor: TimelineActor = { type: 'system', id: null, name: 'Platterpost (offer deadline)' };
 
+/** A signed-in person as the timeline names them. */
+export async function personActor(manager: EntityManager, userId: string, fallbackName: string): Promise<TimelineActor> {
+  const rows: { name: string }[] = await manager.query(`SELECT name FROM users WHERE id = $1`, [userId]);
+  return { type: 'user', id: userId, name: rows[0]?.name ?? fallbackName };
+}
+
 export interface TimelineInput {
   kind: string;
   summary: string;

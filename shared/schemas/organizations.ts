@@ -45,3 +45,14 @@ export type OrganizationDto = z.infer<typeof organizationDto>;
 
 export const onboardedOrganizationDto = z.object({ organization: organizationDto, admin: staffMemberSchema });
 export type OnboardedOrganizationDto = z.infer<typeof onboardedOrganizationDto>;
+
+/** PUT /api/network/organizations/:id/active: switching a shop or lab off (or on again), with why. */
+export const organizationActiveInput = z
+  .object({
+    active: z.boolean({ message: 'Say true (switched on) or false (switched off)' }),
+    reason: text(300).optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (!v.active && !v.reason) ctx.addIssue({ code: 'custom', path: ['reason'], message: 'Say why it is switched off; the audit log keeps it' });
+  });
+export type OrganizationActiveInput = z.input<typeof organizationActiveInput>;

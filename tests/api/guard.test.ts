@@ -15,7 +15,7 @@ const admins: Role[] = ['partner_admin', 'lab_manager', 'network_admin'];
 
 // Every guarded route so far × every role: what each role is answered. "pass" means the guard
 // let the request through (the route then answers 200, or 400 for the deliberately empty body).
-const matrix: { method: 'get' | 'post'; path: string; body?: object; allowed: readonly Role[]; pass: number }[] = [
+const matrix: { method: 'get' | 'post' | 'put'; path: string; body?: object; allowed: readonly Role[]; pass: number }[] = [
   { method: 'get', path: '/api/auth/me', allowed: roles, pass: 200 },
   { method: 'post', path: '/api/auth/password', body: {}, allowed: roles, pass: 400 },
   { method: 'get', path: '/api/organization', allowed: roles, pass: 200 },
@@ -24,6 +24,7 @@ const matrix: { method: 'get' | 'post'; path: string; body?: object; allowed: re
   { method: 'get', path: '/api/network/organizations', allowed: ['network_admin'], pass: 200 },
   { method: 'get', path: `/api/network/organizations/${anyOrgId}`, allowed: ['network_admin'], pass: 200 },
   { method: 'post', path: '/api/network/organizations', body: {}, allowed: ['network_admin'], pass: 400 },
+  { method: 'put', path: `/api/network/organizations/${anyOrgId}/active`, body: {}, allowed: ['network_admin'], pass: 400 },
 ];
 
 describe('guard matrix', () => {

@@ -1,12 +1,14 @@
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
-import { onboardedOrganizationDto } from '@shared/schemas/organizations';
+import { onboardedOrganizationDto, organizationDto } from '@shared/schemas/organizations';
 import { lookupPostalCode } from '../../server/routing';
 import { linkToken, setupApi, signIn, unique, waitForMail } from '../support/api';
 import { createOrganization, createUser, TEST_PASSWORD } from '../support/factories';
+import { bearer, testNetwork } from '../support/network';
 
 // The network admin adds a shop or a lab and invites the person who runs it; the lab is not routed to
-// until its profile says what it can do. Every refusal writes nothing.
+// until its profile says what it can do. The admin can switch either off and on again. Every refusal
+// writes nothing. This file's shops and labs sit in Jackson, WY (ZIP 83001).
 const { app, db } = await setupApi({}, { workers: { mail: true } });
 
 async function networkAdmin() {
@@ -116,5 +118,73 @@ describe('POST /api/network/organizations', () => {
     const shopAdmin = await createUser(db, { role: 'partner_admin', organizationId: shop.id });
     const { accessToken } = await signIn(app, shopAdmin.email, TEST_PASSWORD);
     expect((await onboard(accessToken, { ...valid, name: unique('Shop ') })).status).toBe(403);
+  });
+});
+
+describe('PUT /api/network/organizations/:id/active', () => {
+  const network = testNetwork({ app, db }, { zip: '83001', timeZone: 'America/Denver', holidayRegion: 'WY' });
+  const logicalLab = (turnaroundDays: number) => network.makeLab({ mediaTypes: ['usb_flash'], skills: [{ skill: 'logical', turnaroundDays }] });
+  const switchTo = (token: string, id: string, body: unknown) => request(app).put(`/api/network/organizations/${id}/active`).set(bearer(token)).send(body as object);
+
+  it('switches a shop off: its API key and its people stop working, until it is switched on again; audited with why', async () => {
+    const admin = await networkAdmin();
+    const shop = await createOrganization(db, 'partner');
+    const person = await createUser(db, { role: 'partner_admin', organizationId: shop.id });
+    const signedIn = await signIn(app, person.email, TEST_PASSWORD);
+    const key = (await request(app).post('/api/partner/api-keys').set(bearer(signedIn.accessToken)).send({ name: 'Counter' })).body.key as string;
+    expect((await request(app).get('/api/v1/me').set(bearer(key))).status).toBe(200);
+
+    const off = await switchTo(admin.token, shop.id, { active: false, reason: 'Unpaid invoices' });
+    expect(off.status, JSON.stringify(off.body)).toBe(200);
+    expect(organizationDto.parse(off.body).active).toBe(false);
+    expect((await request(app).get('/api/v1/me').set(bearer(key))).status).toBe(401);
+    expect((await request(app).get('/api/organization').set(bearer(signedIn.accessToken))).status).toBe(401);
+    expect((await request(app).post('/api/auth/sign-in').send({ email: person.email, password: TEST_PASSWORD })).status).toBe(401);
+
+    expect((await switchTo(admin.token, shop.id, { active: true })).body.active).toBe(true);
+    expect((await request(app).get('/api/v1/me').set(bearer(key))).status).toBe(200);
+    const audit: { action: string; details: { reason: string | null } }[] = await db.query(
+      `SELECT action, details FROM audit_events WHERE target_id = $1 AND action LIKE 'organization.switched_%' ORDER BY at`,
+      [shop.id],
+    );
+    expect(audit.map((a) => [a.action, a.details.reason])).toEqual([
+      ['organization.switched_off', 'Unpaid invoices'],
+      ['organization.switched_on', null],
+    ]);
+  });
+
+  it('switches a lab off: the offer it has not answered goes to the next lab at once, on the timeline', async () => {
+    const admin = await networkAdmin();
+    const shop = await network.makeShop();
+    const first = await logicalLab(1);
+    const second = await logicalLab(2);
+    const opened = await request(app)
+      .post('/api/referrals')
+      .set(bearer(shop.token))
+      .send({ customer: { name: 'Reed Calloway', email: 'reed@customer.test' }, device: { mediaType: 'usb_flash' }, symptoms: ['deleted_files'], consent: { accepted: true } });
+    expect(opened.body.offer.labId).toBe(first.org.id);
+
+    expect((await switchTo(admin.token, first.org.id, { active: false, reason: 'Clean room closed for repairs' })).status).toBe(200);
+    const kase = await request(app).get(`/api/referrals/${opened.body.id}`).set(bearer(shop.token));
+    expect(kase.body.offer).toMatchObject({ labId: second.org.id, status: 'pending' });
+    expect(kase.body.timeline.slice(-3).map((t: { kind: string }) => t.kind)).toEqual(['offer_withdrawn', 'routed', 'offered']);
+    expect(kase.body.timeline.at(-3).summary).toContain('the network switched the lab off');
+    expect(kase.body.routing.excluded.find((e: { labId: string }) => e.labId === first.org.id)).toBeTruthy();
+    const [audit]: { details: { offersPassedOn: number } }[] = await db.query(`SELECT details FROM audit_events WHERE target_id = $1 AND action = 'organization.switched_off'`, [first.org.id]);
+    expect(audit!.details.offersPassedOn).toBe(1);
+  });
+
+  it('needs a reason to switch off, and knows only shops and labs', async () => {
+    const admin = await networkAdmin();
+    const shop = await createOrganization(db, 'partner');
+    const noReason = await switchTo(admin.token, shop.id, { active: false });
+    expect(noReason.status).toBe(400);
+    expect(noReason.body.error.fields).toEqual([{ path: 'reason', message: 'Say why it is switched off; the audit log keeps it' }]);
+    const notBoolean = await switchTo(admin.token, shop.id, { active: 'no' });
+    expect(notBoolean.body.error.fields.map((f: { path: string }) => f.path)).toEqual(['active']);
+    const network = await createOrganization(db, 'network');
+    expect((await switchTo(admin.token, network.id, { active: false, reason: 'x' })).status).toBe(404);
+    expect((await switchTo(admin.token, '00000000-0000-4000-8000-000000000000', { active: true })).status).toBe(404);
+    expect((await db.query(`SELECT active FROM organizations WHERE id = $1`, [shop.id]))[0].active).toBe(true);
   });
 });

@@ -4,14 +4,14 @@ import { unique } from '../support/api';
 import { appUrl, browserPages, signIn, seriousViolations } from '../support/browser';
 
 // The network admin adds a shop and a lab through their forms: the fields say what is missing, the
-// newcomer is listed at once, and the lab shows as not yet set up. Both sit in Anchorage, far from the
+// newcomer is listed at once, and the lab shows as not yet set up; the shop is switched off and on. Both sit in Anchorage, far from the
 // demo shops, so no other suite's ranking meets them.
 
 const NETWORK_ADMIN = 'ines.albright@platterpost.example';
 const freshPage = browserPages();
 
 describe('onboarding', () => {
-  it('adds a shop and a lab, each with the person who runs it invited', async () => {
+  it('adds a shop and a lab, each with the person who runs it invited, and switches the shop off and on', async () => {
     const page = await freshPage();
     await signIn(page, NETWORK_ADMIN, DEMO_PASSWORD);
     await page.getByRole('heading', { level: 1, name: 'Network overview', exact: true }).waitFor();
@@ -40,7 +40,20 @@ describe('onboarding', () => {
     await page.getByRole('status').getByText(`${shop} added`).waitFor();
     await page.getByRole('status').getByText(`The invitation went to ${shopAdmin}.`, { exact: false }).waitFor();
     const shops = page.getByRole('table', { name: 'Shops and their commission plans' });
-    await shops.getByRole('row').filter({ hasText: shop }).getByText('Anchorage, AK').waitFor();
+    const shopRow = shops.getByRole('row').filter({ hasText: shop });
+    await shopRow.getByText('Anchorage, AK').waitFor();
+
+    // Switched off, with a reason the form asks for, and on again.
+    await page.getByRole('button', { name: `Switch ${shop} off` }).click();
+    const off = page.getByRole('form', { name: `Switch ${shop} off` });
+    await off.getByText('its API keys stop working', { exact: false }).waitFor();
+    await page.getByRole('dialog').getByRole('button', { name: 'Switch off', exact: true }).click();
+    await off.getByText('Say why it is switched off; the audit log keeps it').waitFor();
+    await off.getByLabel('Why').fill('Closed for the winter');
+    await page.getByRole('dialog').getByRole('button', { name: 'Switch off', exact: true }).click();
+    await shopRow.getByText('Switched off').waitFor();
+    await page.getByRole('button', { name: `Switch ${shop} on` }).click();
+    await shopRow.getByText('Active', { exact: true }).waitFor();
 
     await page.goto(appUrl('/admin/labs'));
     await page.getByRole('heading', { level: 1, name: 'Labs', exact: true }).waitFor();

@@ -17,6 +17,7 @@ import { toast } from '@/components/ui/toast';
 import { useAssignCommissionPlan, useCommissionPlans, useCreateCommissionPlan, usePartners, useUpdateCommissionPlan, type PartnerRow } from '../api/commission-plans';
 import { planFormSchema, planFormValuesFrom, planInputFrom } from '../utils/plan-form';
 import { OnboardOrganizationDialog } from './onboard-organization-dialog';
+import { SwitchOrganizationButton } from './switch-organization';
 
 /** "10 % · 14 % at 20+ paid": each tier's rate, and from how many paid referrals (90 days) it applies. */
 export function describeTiers(plan: Pick<CommissionPlanDto, 'tiers'>): string {
@@ -195,6 +196,7 @@ export function PartnersCard() {
     { header: 'Place', cell: (s) => [s.address.city, s.address.region].filter(Boolean).join(', ') || '—' },
     { header: 'Status', cell: (s) => (s.active ? <Badge tone="success">Active</Badge> : <Badge tone="neutral">Switched off</Badge>) },
     { header: 'Commission plan', cell: (s) => <PlanChoice partner={s} plans={plans.data?.plans ?? []} /> },
+    { header: <span className="sr-only">Switch on or off</span>, cell: (s) => <SwitchOrganizationButton organization={{ ...s, kind: 'partner' }} /> },
   ];
   return (
     <Card title="Shops" description="Every repair shop and reseller that refers cases, with the commission plan it is on." actions={<OnboardOrganizationDialog kind="partner" />}>

@@ -10,6 +10,7 @@ import { Spinner } from '@/components/ui/spinner';
 import { Table, type TableColumn } from '@/components/ui/table';
 import { formatDate } from '@/lib/format';
 import { useLabs } from '../api/get-labs';
+import { SwitchOrganizationButton } from './switch-organization';
 
 export function skillFrom(search: URLSearchParams): LabSkill | undefined {
   const skill = search.get('skill');
@@ -96,6 +97,10 @@ const columns: TableColumn<LabSummaryDto>[] = [
   {
     header: 'Skills',
     cell: (lab) => <span className="text-sm">{lab.skills.map((s) => labSkillLabels[s.skill]).join(', ') || '—'}</span>,
+  },
+  {
+    header: <span className="sr-only">Switch on or off</span>,
+    cell: (lab) => <SwitchOrganizationButton organization={{ id: lab.id, name: lab.name, kind: 'lab', active: lab.active }} />,
   },
 ];
 
