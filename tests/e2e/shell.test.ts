@@ -187,6 +187,8 @@ describe('app shell', () => {
     await seesHeading(joined, 'Sign in');
 
     await joined.getByRole('link', { name: 'Forgot your password?' }).click();
+    // The sign-in page has an E-mail field too: fill the new page's, not the one on its way out.
+    await seesHeading(joined, 'Choose a new password');
     await joined.getByLabel('E-mail').fill(email);
     await joined.getByRole('button', { name: 'Send me a link' }).click();
     await joined.getByText('Check your inbox').waitFor();
